@@ -1,0 +1,125 @@
+"""Ready models, each a :class:`contourkit.horizon.HorizonModel`.
+
+Conventions (all models): ``phi ~ exp(-i omega t + i k x)``; units with the
+low-frequency wave speed c = 1; the fluid (or the front) moves towards -x
+near the horizon, ``v(x) = -1 + kappa x + ...``; horizon at x = 0, exterior
+(subsonic) side x > 0.  Each dispersion function is normalised so that
+positive-norm modes have ``dD/domega > 0``.
+
+References
+----------
+.. [1] W. G. Unruh, Phys. Rev. Lett. 46 (1981) 1351 (sonic analogue).
+.. [2] W. G. Unruh, Phys. Rev. D 51 (1995) 2827; S. Corley, T. Jacobson,
+   Phys. Rev. D 54 (1996) 1568 (quartic dispersion at a horizon).
+.. [3] J. Macher, R. Parentani, Phys. Rev. D 79 (2009) 124008 (tanh profiles).
+"""
+import sympy as sp
+
+from ._sym import exact
+from .errors import InputError
+from .horizon import HorizonModel
+
+_w, _k, _x = sp.symbols("omega k x")
+
+
+def _positive(name, value):
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        raise InputError(f"{name} must be a positive number, got {value!r}")
+    if not (v > 0) or v != v or v == float("inf"):
+        raise InputError(f"{name} must be a positive finite number, got {value!r}")
+    return exact(value)
+
+
+def _flow_profile(kappa, D):
+    if D is None:
+        return -1 + kappa * _x, (-1e300, 1e300)
+    D = _positive("D", D)
+    if D >= 1:
+        raise InputError(f"D = {D} >= 1 makes v vanish or change sign; take 0 < D < 1")
+    return -1 + D * sp.tanh(kappa * _x / D), None
+
+
+def nondispersive_flow(kappa=0.05, *, D=None):
+    """Sound in a flow without dispersion: ``D = (omega - v k)^2 - k^2``.
+
+    Parameters
+    ----------
+    kappa : float
+        Surface gravity (flow gradient at the horizon), > 0.
+    D : float, optional
+        None: linear profile ``v = -1 + kappa x`` (exactly the near-horizon
+        model); else ``v = -1 + D tanh(kappa x / D)``.
+
+    Notes
+    -----
+    Regime of validity: all omega > 0.  Without dispersion the near-horizon
+    stationary S-matrix has no dispersive in-mode: the two out-going modes
+    on either side (k -> 0 and k -> -omega) and the in-going one are all
+    long-wavelength modes, and the thermal factor follows from the analytic
+    structure at the branch point k = 0 (exponent sum ``-1 - i omega/kappa``).
+
+    Examples
+    --------
+    >>> m = nondispersive_flow(kappa=0.05)
+    >>> m.kappa
+    0.05
+    """
+    kappa = _positive("kappa", kappa)
+    v, _ = _flow_profile(kappa, D)
+    m = HorizonModel.from_dispersion((_w - v * _k) ** 2 - _k ** 2, omega=_w, k=_k, x=_x, horizon=0.0,
+                                     name="nondispersive flow",
+                                     description="(omega - v k)^2 = k^2 with v = " + str(v))
+    m.branch = None
+    m.Lambda = None
+    m.flow_D = D
+    return m
+
+
+def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None):
+    """Flow with quartic dispersion: ``(omega - v k)^2 = k^2 (1 +- k^2/Lambda^2)``.
+
+    Parameters
+    ----------
+    kappa : float
+        Surface gravity, > 0.
+    Lambda : float
+        Dispersive wavenumber scale, > 0; the near-horizon model is thermal
+        for ``kappa << Lambda`` and ``omega << Lambda``.
+    branch : {"superluminal", "subluminal"}
+        Sign s = +1 (superluminal, like a condensate) or -1 (subluminal, like
+        surface waves on deep water at long wavelength).
+    D : float, optional
+        None: ``v = -1 + kappa x``; else ``v = -1 + D tanh(kappa x / D)``
+        with 0 < D < 1 (uniform asymptotic regions v -> -1 +- D).
+
+    Notes
+    -----
+    ``D(omega, k; x) = (omega - v k)^2 - k^2 - s k^4/Lambda^2``.
+    Superluminal: three in-modes (two dispersive ones of opposite norm from
+    the interior, one counter-propagating from the exterior).  Subluminal:
+    the dispersive in-modes arrive from the exterior.  Dispersive branches
+    exist up to a cut-off ``omega_max`` in the asymptotic region (see
+    ``model.omega_max``).
+
+    Examples
+    --------
+    >>> m = quartic_flow(kappa=0.05, Lambda=2.5)
+    >>> round(m.hawking_temperature, 6)
+    0.007958
+    """
+    kappa = _positive("kappa", kappa)
+    Lambda = _positive("Lambda", Lambda)
+    if branch not in ("superluminal", "subluminal"):
+        raise InputError(f"branch must be 'superluminal' or 'subluminal', got {branch!r}")
+    s = 1 if branch == "superluminal" else -1
+    v, _ = _flow_profile(kappa, D)
+    Dfun = (_w - v * _k) ** 2 - _k ** 2 - s * _k ** 4 / Lambda ** 2
+    m = HorizonModel.from_dispersion(Dfun, omega=_w, k=_k, x=_x, horizon=0.0,
+                                     name=f"quartic {branch} flow",
+                                     description=f"(omega - v k)^2 = k^2 (1 {'+' if s > 0 else '-'} k^2/Lambda^2), v = {v}")
+    m.branch = branch
+    m.Lambda = Lambda
+    m.flow_D = None if D is None else exact(D)
+    return m
