@@ -184,11 +184,14 @@ def model_cutoffs(model):
     InputError
         If the profile has no uniform asymptotic regions.
     """
-    from .planewaves import asymptotic_dispersion
-    out = []
-    for side in ("exterior", "interior"):
-        out += cutoffs(asymptotic_dispersion(model, side), side=side)
-    return sorted(out, key=lambda c: c.omega)
+    from .planewaves import _store, asymptotic_dispersion
+    st = _store(model)
+    if "cutoffs" not in st:
+        out = []
+        for side in ("exterior", "interior"):
+            out += cutoffs(asymptotic_dispersion(model, side), side=side)
+        st["cutoffs"] = sorted(out, key=lambda c: c.omega)
+    return list(st["cutoffs"])
 
 
 def omega_max(model):

@@ -44,10 +44,10 @@ def geometry_x(x):
 
 
 def crossings(rep, cverts, clogs, arm, orient):
-    """Signed, sheet-weighted crossings of polyline C with an ascent arm."""
+    """Crossings of polyline C with an ascent arm: a list of (sign, sheet shift m)."""
     kv = arm.k
     if len(kv) < 2:
-        return 0j
+        return []
     a0 = cverts[:-1][:, None]
     a1 = cverts[1:][:, None]
     b0 = kv[:-1][None, :]
@@ -60,17 +60,34 @@ def crossings(rep, cverts, clogs, arm, orient):
         s = (np.conj(w) * db).imag / cross
         t = (np.conj(w) * da).imag / cross
     hit = (cross != 0) & (s >= 0) & (s < 1) & (t >= 0) & (t < 1)
-    total = 0j
+    out = []
     for ia, ib in zip(*np.nonzero(hit)):
         p = a0[ia, 0] + s[ia, ib] * da[ia, 0]
-        sign = 1.0 if orient * cross[ia, ib] > 0 else -1.0
-        factor = 1.0 + 0j
+        sign = 1 if orient * cross[ia, ib] > 0 else -1
+        m = ()
         if rep._kj.size:
             lc = phase.continue_logs(rep, cverts[ia], clogs[ia], p)
             lk = phase.continue_logs(rep, kv[ib], arm.logs[ib], p)
-            m = np.round((lc - lk).imag / (2 * math.pi))
-            factor = complex(np.exp(2j * math.pi * np.dot(m, rep._nu)))
-        total += sign * factor
+            m = tuple(int(v) for v in np.round((lc - lk).imag / (2 * math.pi)))
+        out.append((sign, m))
+    return out
+
+
+def term_factor(rep, kind, params, nu, exp2pii):
+    """Extra factor of an elementary contour: 1/(exp(2 pi i nu_j) - 1) for a half-line."""
+    if kind != "half":
+        return 1
+    j = C._singular_index(rep, params["point"])
+    return 1 / (exp2pii(nu[j]) - 1)
+
+
+def coefficient(rep, terms, crossing_list, nu, exp2pii):
+    """Thimble coefficient sum_terms coef * factor * sum_crossings sign exp(2 pi i m.nu)."""
+    total = 0
+    for ti, sign, m in crossing_list:
+        coef, kind, params = terms[ti]
+        w = exp2pii(sum(mi * nj for mi, nj in zip(m, nu))) if m else 1
+        total = total + coef * term_factor(rep, kind, params, nu, exp2pii) * sign * w
     return total
 
 
@@ -80,7 +97,9 @@ def decompose(rep, contour, x, *, u_stop=40.0):
     Returns
     -------
     geometry : Geometry
-    coeffs : list of (coefficient, thimble index) with nonzero coefficients
+    coeffs : list of (coefficient, thimble index, crossings) with nonzero coefficients;
+        crossings is a list of (term index, sign, sheet shift) from which the
+        coefficient is recomputed at any precision by :func:`coefficient`.
     """
     xg = geometry_x(x)
     crit = critical_points(rep, xg)
@@ -94,7 +113,6 @@ def decompose(rep, contour, x, *, u_stop=40.0):
     for coef, kind, params in contour.terms:
         verts, slog = C.representative(rep, xg, kind, params, crit, level)
         logs = C.polyline_logs(rep, verts, slog)
-        extra = 1.0
         if kind == "half":
             j = C._singular_index(rep, params["point"])
             nu = rep._nu[j]
@@ -107,21 +125,26 @@ def decompose(rep, contour, x, *, u_stop=40.0):
                 from .errors import ContourError
                 raise ContourError(f"the exponent at {rep.singularities[j].point} is an integer: the loop vanishes "
                                    f"and the half-line is not a closed cycle; use another contour")
-            extra = 1.0 / den
-        reps.append((coef * extra, verts, logs))
+        reps.append((coef, verts, logs))
     cmax = -math.inf
+    rmax = 0.0
     for _, verts, logs in reps:
         vals = phase.phi(rep, xg, verts, logs).real
         cmax = max(cmax, float(np.max(vals)))
+        rmax = max(rmax, float(np.max(np.abs(verts))))
     thims = []
     coeffs = []
     for i, s in enumerate(crit):
         u_up = max(cmax - phis[i] + 4.0, 4.0)
-        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up)
+        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax)
         thims.append(t)
-        n = 0j
-        for coef, verts, logs in reps:
-            n += coef * (crossings(rep, verts, logs, t.up_plus, +1) + crossings(rep, verts, logs, t.up_minus, -1))
-        if abs(n) > 1e-9:
-            coeffs.append((complex(n), i))
+        cl = []
+        for ti, (coef, verts, logs) in enumerate(reps):
+            cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_plus, +1)]
+            cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
+        n = complex(coefficient(rep, contour.terms, cl, list(rep._nu), lambda z: np.exp(2j * math.pi * z)))
+        size = sum(abs(complex(coefficient(rep, contour.terms, [c], list(rep._nu),
+                                           lambda z: np.exp(2j * math.pi * z)))) for c in cl)
+        if cl and abs(n) > 1e-12 * size:
+            coeffs.append((n, i, cl))
     return Geometry(x, xg, crit, thims, u_stop), coeffs

@@ -121,7 +121,8 @@ class _File:
     def string(self, table, key, section, *, required=False):
         if key not in table:
             if required:
-                self.fail(f"[{section}] has no '{key}'; add {key} = \"...\"")
+                value = '"dispersion" or "ode"' if key == "kind" else '"..."'
+                self.fail(f"[{section}] has no '{key}'; add {key} = {value}")
             return None
         v = table[key]
         if not isinstance(v, str):

@@ -59,7 +59,7 @@ def _local_scale(rep, x, k, crit):
 
 
 def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
-              logs0=None, max_steps=4000, u_cap=None):
+              logs0=None, max_steps=4000, u_cap=None, r_beyond=0.0):
     """Trace one descent (or ascent) arm from the critical point sigma.
 
     Parameters
@@ -70,6 +70,8 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
     direction : complex   unit vector of the initial direction
     ascent : bool    trace Re Phi increasing instead of decreasing
     u_stop : float   stop once the change of Re Phi exceeds this
+    r_beyond : float for ascent arms: stop at the level only beyond this radius
+                     (Re Phi differs between sheets, so a level alone is no bound)
     crit : array     all critical points (for step control)
     """
     sgn = 1.0 if ascent else -1.0          # Phi(k) = Phi0 + sgn * u
@@ -126,7 +128,7 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
         ks.append(k)
         lg.append(logs)
         us.append(u)
-        if u >= u_stop:
+        if u >= u_stop and (not ascent or abs(k) > r_beyond):
             end = "valley" if not ascent else "level"
             break
         # singular point approached?
@@ -193,7 +195,7 @@ def descent_direction(rep, x, sigma):
     return cmath.exp(1j * (math.pi - cmath.phase(f2)) / 2)
 
 
-def thimble(rep, x, sigma, crit, *, u_stop, u_up=None):
+def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0):
     """Trace the thimble (and, if u_up is given, the dual) through sigma."""
     d = descent_direction(rep, x, sigma)
     plus = trace_arm(rep, x, sigma, d, u_stop=u_stop, crit=crit)
@@ -205,6 +207,10 @@ def thimble(rep, x, sigma, crit, *, u_stop, u_up=None):
                                 f"coalesce: move x slightly")
     t = Thimble(sigma, d, minus, plus)
     if u_up is not None:
-        t.up_plus = trace_arm(rep, x, sigma, 1j * d, ascent=True, u_stop=u_up, crit=crit)
-        t.up_minus = trace_arm(rep, x, sigma, -1j * d, ascent=True, u_stop=u_up, crit=crit)
+        for name, dd in (("up_plus", 1j * d), ("up_minus", -1j * d)):
+            arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond)
+            if arm.end == "stalled":
+                raise AccuracyError(f"a steepest-ascent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
+                                    f"near k = {arm.k[-1]:.6g}; move x slightly")
+            setattr(t, name, arm)
     return t

@@ -143,9 +143,11 @@ def _mp_terms(model, side):
         asym = sp.Poly(asymptotic_dispersion(model, side), OMEGA, KS)
         lims = dict(asym.terms())
         funcs = []
-        for m, c in dispersion_terms(model).items():
-            if c.has(X):
-                funcs.append((sp.lambdify(X, c, "mpmath"), lims.get(m, sp.Integer(0))))
+        with mpmath.workdps(40):
+            for m, c in dispersion_terms(model).items():
+                if c.has(X):
+                    lim = mpmath.mpmathify(complex(sp.N(lims.get(m, sp.Integer(0)), 45)))
+                    funcs.append((sp.lambdify(X, c, "mpmath"), lim))
         scale = max([abs(complex(v)) for v in lims.values()] + [1e-300])
         st[key] = (funcs, scale)
     return st[key]
@@ -170,7 +172,7 @@ def deviation(model, x, side):
         xm = mpmath.mpf(float(x))
         dev = mpmath.mpf(0)
         for f, lim in funcs:
-            dev = max(dev, abs(mpmath.mpmathify(f(xm)) - mpmath.mpmathify(complex(sp.N(lim, 45)))))
+            dev = max(dev, abs(mpmath.mpmathify(f(xm)) - lim))
         return float(dev / scale)
 
 
@@ -211,8 +213,12 @@ def default_window(model, *, tol=WINDOW_TOL):
     >>> 150 < -a < 250 and 150 < b < 250
     True
     """
-    xh = float(model.horizon)
-    return (xh - uniform_length(model, "interior", tol=tol), xh + uniform_length(model, "exterior", tol=tol))
+    st = _store(model)
+    key = ("window", float(tol))
+    if key not in st:
+        xh = float(model.horizon)
+        st[key] = (xh - uniform_length(model, "interior", tol=tol), xh + uniform_length(model, "exterior", tol=tol))
+    return st[key]
 
 
 def dispersion_callables(model):
@@ -252,6 +258,20 @@ def local_roots(model, omega, x):
         safe = np.abs(d) > 0
         roots = np.where(safe, roots - np.polyval(p, roots) / np.where(safe, d, 1), roots)
     return roots
+
+
+def max_root_modulus(model, omega, xs):
+    """``max |k|`` over the roots of ``D(omega, k; x)`` at each position of the array xs (vectorised)."""
+    cD, _ = dispersion_callables(model)
+    xs = np.asarray(xs, dtype=float)
+    c = np.array([np.broadcast_to(np.asarray(f(omega, xs), dtype=complex), xs.shape) for f in cD])
+    n = c.shape[0] - 1
+    if np.any(c[n] == 0):
+        return np.array([float(np.max(np.abs(local_roots(model, omega, x)))) for x in xs])
+    comp = np.zeros((len(xs), n, n), dtype=complex)
+    comp[:, 0, :] = -(c[n - 1::-1] / c[n]).T
+    comp[:, np.arange(1, n), np.arange(n - 1)] = 1.0
+    return np.max(np.abs(np.linalg.eigvals(comp)), axis=1)
 
 
 def classify(model, omega, x, k, side):

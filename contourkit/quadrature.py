@@ -31,7 +31,7 @@ import numpy as np
 
 from . import phase
 from .contours import Contour
-from .decompose import decompose
+from .decompose import coefficient, decompose
 from .errors import AccuracyWarning, ContourError, InputError
 from .saddles import check_x
 
@@ -176,13 +176,18 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
     u_stop = math.log(10) * (digits + 3) + 5
     if rtol is None:
         rtol = 1e-11 if dps is None else 10.0 ** (-(dps - 3))
-    geom, coeffs = decompose(rep, contour, x, u_stop=u_stop)
+    key = (repr(contour.terms), x, u_stop)
+    if key not in rep._geom:
+        if len(rep._geom) > 64:
+            rep._geom.pop(next(iter(rep._geom)))
+        rep._geom[key] = decompose(rep, contour, x, u_stop=u_stop)
+    geom, coeffs = rep._geom[key]
     evals = 0
     if dps is None:
         total = 0j
         err = 0.0
         scale = 0.0
-        for n_sig, i in coeffs:
+        for n_sig, i, cl in coeffs:
             t = geom.thimbles[i]
             ls = t.plus.logs[0]
             ps = complex(phase.phi(rep, x, t.sigma, ls))
@@ -206,7 +211,7 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
             err = mpmath.mpf(0)
             scale = mpmath.mpf(0)
             xm = mpmath.mpf(x)
-            for n_sig, i in coeffs:
+            for n_sig, i, cl in coeffs:
                 t = geom.thimbles[i]
                 sig = mpmath.mpc(t.sigma)
                 ls = phase.to_mp_logs(t.plus.logs[0], data, sig, t.sigma)
@@ -214,7 +219,7 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
                 Ip, ep, cp = _arm_integral_mp(rep, x, t.plus, ps, derivative, dps, data, ls)
                 Im, em, cm = _arm_integral_mp(rep, x, t.minus, ps, derivative, dps, data, ls)
                 evals += cp + cm
-                nsig = _mp_coefficient(n_sig, t, rep, data)
+                nsig = coefficient(rep, contour.terms, cl, data[2], lambda z: mpmath.expjpi(2 * z))
                 fac = nsig * mpmath.exp(ps)
                 contrib = fac * (Ip - Im)
                 total += contrib
@@ -228,36 +233,7 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
     msg = "converged" if ok else (f"estimated error {err:.3g} exceeds rtol={rtol:.1g} times the size of the terms "
                                   f"{max(float(abs(value)), scale):.3g}")
     return Integral(value, float(err), float(scale), dps, bool(ok), msg, evals,
-                    [(n, geom.crit[i]) for n, i in coeffs])
-
-
-def _mp_coefficient(n_sig, thimble, rep, data):
-    """Intersection coefficients are sums of exp(2 pi i m.nu); recompute them at full precision."""
-    if not rep._kj.size:
-        return mpmath.mpc(round(n_sig.real), round(n_sig.imag))
-    # recover the integer combination: try a single sheet factor (the common case)
-    nu = data[2]
-    best = None
-    # the coefficient is a short sum of unimodular terms; fit with small sheet shifts
-    import itertools
-    J = len(nu)
-    rng = range(-2, 3)
-    for count in (1, 2):
-        for combo in itertools.product(itertools.product(rng, repeat=J), repeat=count):
-            for signs in itertools.product((1, -1), repeat=count):
-                val = sum(s * np.exp(2j * math.pi * np.dot(m, rep._nu)) for s, m in zip(signs, combo))
-                if abs(val - n_sig) < 1e-8 * max(1, abs(n_sig)):
-                    best = (signs, combo)
-                    break
-            if best:
-                break
-        if best:
-            break
-    if best is None:
-        return mpmath.mpc(n_sig)
-    signs, combo = best
-    return sum(s * mpmath.exp(2j * mpmath.pi * mpmath.fsum(mi * nj for mi, nj in zip(m, nu)))
-               for s, m in zip(signs, combo))
+                    [(n, geom.crit[i]) for n, i, _ in coeffs])
 
 
 def evaluate(rep, contour, x, *, derivative=0, dps=None, rtol=None, full_output=False):
@@ -303,7 +279,11 @@ def evaluate(rep, contour, x, *, derivative=0, dps=None, rtol=None, full_output=
                           stacklevel=3)
     if scalar:
         r = res[0]
-        v = Value(r.value) if dps is None else MpValue(r.value)
+        if dps is None:
+            v = Value(r.value)
+        else:
+            with mpmath.workdps(dps + 10):
+                v = MpValue(r.value)
         v.error, v.dps, v.success, v.message, v.evaluations = r.error, dps, r.success, r.message, r.evaluations
         return v
     if dps is None:

@@ -25,7 +25,7 @@ MAX_DEPTH = 100          # nesting depth of the syntax tree (and of brackets)
 MAX_NODES = 1000         # syntax-tree nodes
 MAX_LITERAL = 10 ** 6    # |number literal|
 MAX_EXPONENT = 64        # |b| in a ** b
-MAX_DEGREE = 512         # bound on polynomial degree / size growth of the result
+MAX_DEGREE = 64          # bound on polynomial degree / size growth of the result
 MAX_TERMS = 10_000       # bound on the number of terms a full expansion could give
 MAX_DERIVATIVE = 12      # n in der(f, n)
 
