@@ -253,11 +253,16 @@ def representative(rep, x, kind, params, crit, level):
         others = [abs(kj - p) for p in list(rep._kj) if abs(kj - p) > 1e-12]
         r = 0.3 * min(others + [1.0, 0.3 * R0])
         # the straight leg must not pass close to another singular point
+        # (x may be the slightly complex geometry point of decompose.py: test the leg direction at
+        # the real x as well, or a leg through a singular point is missed by ~1e-7 and its side is arbitrary)
+        dirs = [d]
+        if isinstance(x, complex) and x.imag != 0:
+            dirs.append(cmath.exp(1j * _valley(rep, x.real, params["valley"], j).center))
         for i, ki in enumerate(rep._kj):
             if i == j:
                 continue
-            t = ((ki - kj) / d).real
-            if t > 0 and abs(((ki - kj) / d).imag) < 1e-9 * max(1.0, abs(ki - kj)):
+            if any(((ki - kj) / dd).real > 0 and abs(((ki - kj) / dd).imag) < 1e-9 * max(1.0, abs(ki - kj))
+                   for dd in dirs):
                 raise ContourError(f"the loop around {rep.singularities[j].point} towards valley {v.index} would run "
                                    f"through the singular point {rep.singularities[i].point}; choose another valley "
                                    f"(valley=...) or another cut_angle")

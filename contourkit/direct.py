@@ -269,8 +269,9 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     rtol : float
         Target accuracy of the S-matrix entries (unit-flux normalised).
     points : int
-        Initial Chebyshev nodes per segment (raised in steps of 8 up to
-        ``max_points`` until two resolutions agree to ``rtol``).
+        Initial Chebyshev nodes per segment; the S-matrix is computed with
+        ``points`` and ``points + 8`` nodes and, while the two differ by more
+        than ``rtol``, again with 8 more, up to ``max_points``.
     step : float
         Segment length times the largest local |k|.
     uniform_tol : float
@@ -307,6 +308,11 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
     if not (isinstance(points, int) and points >= 8):
         raise InputError(f"points must be an integer >= 8, got {points!r}")
+    if not (isinstance(max_points, int) and max_points >= points + 8):
+        raise InputError(f"max_points must be an integer >= points + 8 = {points + 8} (two resolutions are "
+                         f"compared for the error estimate), got {max_points!r}")
+    if not (isinstance(step, (int, float)) and 0 < step <= 20):
+        raise InputError(f"step (segment length times max |k|) must be in (0, 20], got {step!r}")
     for side in ("exterior", "interior"):
         asymptotic_dispersion(model, side)      # InputError for a profile without uniform regions
     for c in model_cutoffs(model):
@@ -352,15 +358,18 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     K = max(kmax, 1e-3)
     EL = _mode_columns(mL, a, xh, K)
     ER = _mode_columns(mR, b, xh, K)
-    prev, N, err = None, points, math.inf
+    def solve(N):
+        return _solve(_transfer(coeffs, w, nodes, N, K), EL, ER, fixed_zero, in_idx)[out_idx, :]
+
+    N = points
+    prev = solve(N)
     while True:
-        amps = _solve(_transfer(coeffs, w, nodes, N, K), EL, ER, fixed_zero, in_idx)
-        S = amps[out_idx, :]
-        if prev is not None:
-            err = float(np.max(np.abs(S - prev)))
-            if err <= rtol or N + 8 > max_points:
-                break
-        prev, N = S, N + 8
+        N += 8
+        S = solve(N)
+        err = float(np.max(np.abs(S - prev)))
+        if err <= rtol or N + 8 > max_points:
+            break
+        prev = S
     in_modes = [ends[j] for j in in_idx]
     out_modes = [ends[j] for j in out_idx]
     eta_in = [md.norm for md in in_modes]
@@ -378,7 +387,14 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         message += ("; omega is above the cut-off omega_max: there is no propagating out-going mode on the "
                     "exterior side (no Hawking channel), so beta = 0 and thermal_ratio = 0 are reported")
     ratio_prev = _ratio(prev, in_modes, out_modes, fig)
-    ratio_err = abs(ratio_prev - fig["thermal_ratio"]) / fig["thermal_ratio"] if fig["thermal_ratio"] else err
+    if fig["thermal_ratio"]:
+        # resolution change of the ratio, and the noise floor of S (seen in the unitarity residual)
+        # propagated to |beta/alpha|^2: 2 delta/|beta| + 2 delta/|alpha|
+        floor = max(err, resid)
+        ratio_err = max(abs(ratio_prev - fig["thermal_ratio"]) / fig["thermal_ratio"],
+                        2 * floor / abs(fig["beta"]) + 2 * floor / abs(fig["alpha"]))
+    else:
+        ratio_err = err
     if fig["thermal_ratio"] > 0 and ratio_err > 1e-2:
         message += (f"; the thermal ratio {fig['thermal_ratio']:.2e} is at the level of the S-matrix error "
                     f"{err:.1e}: only its order of magnitude is meaningful")

@@ -188,7 +188,14 @@ class KSpaceRepresentation:
                 while ess_list and sp.simplify(ess_list[-1]) == 0:
                     ess_list.pop()
                 sings.append(Singularity(kj, nu, ess_list))
+        # a zero of B where E' is analytic (exponent 0, no essential part) is an ordinary point of f
+        sings = [s for s in sings if s.kind != "regular"]
         self.singularities = sings
+        # common factors of B and N = iA - B' give spurious x-independent roots of the critical
+        # polynomial i x B + N (at the ordinary points dropped above): divide them out once
+        G = sp.gcd(N, B)
+        self._crit_B = np.array([complex(sp.N(c, 30)) for c in sp.div(B, G)[0].all_coeffs()], dtype=complex)
+        self._crit_N = np.array([complex(sp.N(c, 30)) for c in sp.div(N, G)[0].all_coeffs()], dtype=complex)
         E = Q.as_expr()
         for s in sings:
             E += s.exponent * sp.log(K - s.point)
@@ -250,10 +257,8 @@ class KSpaceRepresentation:
         """Coefficients (highest first) of the polynomial whose roots are the critical points
         of ``i k x + E(k)``: ``i x B + i A - B'``."""
         x = complex(x)
-        A = np.array([complex(sp.N(c, 30)) for c in self.A.all_coeffs()])
-        B = np.array([complex(sp.N(c, 30)) for c in self.B.all_coeffs()])
-        Bp = np.polyder(B) if len(B) > 1 else np.zeros(1, complex)
-        return np.polyadd(np.polyadd(1j * x * B, 1j * A), -Bp)
+        # i x B + i A - B' with the x-independent common factor gcd(B, iA - B') divided out
+        return np.polyadd(1j * x * self._crit_B, self._crit_N)
 
     def _checked_dps(self, dps):
         if dps is None:

@@ -120,8 +120,12 @@ def test_window_independence(branch, wk, sup, sub):
 def test_resolution_estimate(sup):
     res = scatter(sup, 0.05, rtol=1e-10)
     assert res.extra["resolution_difference"] <= 1e-10
-    coarse = scatter(sup, 0.05, step=6.0, points=16, max_points=16)
-    assert np.max(np.abs(coarse.S - res.S)) <= 1e-4
+    # a deliberately coarse grid must say so (warning, success False) and still be roughly right
+    with pytest.warns(errors.AccuracyWarning, match="resolution difference"):
+        coarse = scatter(sup, 0.05, step=8.0, points=8, max_points=16)
+    assert not coarse.success and coarse.extra["points"] == 16
+    assert coarse.extra["resolution_difference"] > 1e-10
+    assert np.max(np.abs(coarse.S - res.S)) <= 10 * coarse.extra["resolution_difference"]
 
 
 @pytest.mark.parametrize("omega", [0.0, -0.1, float("nan"), float("inf"), "fast", 1j])
@@ -165,3 +169,5 @@ def test_bad_options(sup):
         scatter(sup, 0.05, rtol=0)
     with pytest.raises(errors.InputError, match="window must be"):
         scatter(sup, 0.05, window=(5.0, -5.0))
+    with pytest.raises(errors.InputError, match="max_points"):
+        scatter(sup, 0.05, points=16, max_points=20)

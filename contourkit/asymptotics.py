@@ -1,0 +1,616 @@
+"""Asymptotic expansions of contour integrals: saddle points and branch points.
+
+Saddle point (Laplace's method).  Near a simple saddle t0 of p, with
+``p(t0 + tau) - p(t0) = sum_{j>=2} P_j tau^j`` and ``q(t0 + tau) = sum Q_j tau^j``,
+the substitution ``p - p(t0) = -w^2`` (series reversion, Lagrange-Buermann)
+turns the integral over the steepest-descent path into Gamma integrals:
+
+    int exp(lam p(t)) q(t) dt ~ exp(lam p(t0)) sum_s c_s lam^(-s-1/2),
+    c_s = Gamma(s + 1/2) r^(2s+1) F_s,   r = (-P_2)^(-1/2),
+    F_s = [tau^(2s)] q(t0 + tau) (1 + sum_{j>=1} (P_{j+2}/P_2) tau^j)^(-(s+1/2)).
+
+``F_s`` is derived once, symbolically, as a polynomial in the ratios
+``P_{j+2}/P_2`` and the ``Q_j`` (cached per s), then either substituted
+exactly or evaluated in mpmath.  The sign of r fixes the direction in which
+the path crosses the saddle: by default the principal root (Re r > 0, i.e.
+left to right), otherwise the one with ``Re(r conj(direction)) > 0``.
+
+Branch point (Watson's lemma).  For ``h(t) = sum h_n t^n``,
+``int_0^oo exp(-x t) t^nu h(t) dt ~ sum_n h_n Gamma(nu + n + 1) x^(-nu-n-1)``.
+For the loop around k_b of ``exp(i k x) (k - k_b)^nu h(k)`` whose legs run along
+the ray ``k_b + (i/x) s``, s > 0 (starting on the leg where ``arg(k - k_b) =
+theta``, turning counter-clockwise):
+
+    loop ~ exp(i k_b x) sum_n C_n |x|^(-nu-n-1),
+    C_n = (exp(2 pi i nu) - 1) exp(i (nu+n+1) theta) h_n Gamma(nu + n + 1);
+
+the half line from k_b along the ray has the same terms without the factor
+``exp(2 pi i nu) - 1``.
+
+Error estimate.  Every numeric result sums the terms s = 0..order and reports
+``error_estimate = sqrt(|t_{order+1}|^2 + |t_{order+2}|^2)``, the size of the
+first two omitted terms.  When the real and imaginary parts of the series
+each alternate with decreasing terms (Ai on the positive axis, DLMF 9.7(iii);
+H_nu^(1) on the positive axis, DLMF 10.17(iii)) each part of the remainder is
+bounded by its first omitted term, so this bounds the remainder and exceeds it
+by a factor of order one.
+
+References
+----------
+.. [1] NIST DLMF 2.3 (Watson's lemma, 2.3.2), 2.4 (saddle points, 2.4.14-2.4.15).
+.. [2] N. Bleistein, R. A. Handelsman, Asymptotic Expansions of Integrals,
+   Dover (1986), ch. 4 (Watson's lemma), ch. 7 (the method of steepest descents).
+"""
+import cmath
+import functools
+import math
+from dataclasses import dataclass, field
+
+import mpmath
+import sympy as sp
+
+from .errors import InputError
+from .fourier import K
+from .saddles import check_x, critical_points
+
+__all__ = ["AsymptoticSeries", "saddle_coefficients", "saddle_series", "watson_coefficients",
+           "watson_series", "branch_point_coefficients", "branch_point_series",
+           "saddle_contribution", "branch_point_contribution"]
+
+
+@dataclass
+class AsymptoticSeries:
+    """A truncated asymptotic series with its error estimate.
+
+    Attributes
+    ----------
+    terms : list            the terms s = 0..order (complex, or mpmath.mpc if dps was given)
+    value : complex         their sum
+    error_estimate : float  ``sqrt(|t_{order+1}|^2 + |t_{order+2}|^2)`` (first two omitted terms)
+    order : int             index of the last included term
+    success : bool          the terms still decrease at the truncation point
+    message : str
+    coefficients : list     the (exact where possible) coefficients c_s or C_n, s = 0..order
+    kind : str              "saddle", "watson", "loop" or "half_line"
+    point : complex         the saddle or branch point used
+    """
+    terms: list
+    value: object
+    error_estimate: float
+    order: int
+    success: bool
+    message: str
+    coefficients: list = field(default_factory=list)
+    kind: str = ""
+    point: object = None
+
+
+# -- checks ---------------------------------------------------------------
+def _check_order(order):
+    if isinstance(order, bool) or not isinstance(order, int) or order < 0:
+        raise InputError(f"order must be a non-negative int (the index of the last term kept), got {order!r}")
+    return order
+
+
+def _check_dps(dps):
+    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, int) or dps < 1):
+        raise InputError(f"dps must be None (double precision) or a positive int, got {dps!r}")
+    return dps
+
+
+def _sym(value, what):
+    try:
+        return sp.sympify(value)
+    except (sp.SympifyError, TypeError):
+        raise InputError(f"{what} must be a sympy expression or a number, got {value!r}")
+
+
+def _is_exact(*exprs):
+    return all(not any(isinstance(a, sp.Float) for a in sp.preorder_traversal(e)) for e in exprs)
+
+
+def _taylor_exact(expr, t, t0, n, what):
+    """Exact Taylor coefficients expr^(j)(t0)/j!, j = 0..n."""
+    out, d = [], expr
+    for j in range(n + 1):
+        v = sp.simplify(d.subs(t, t0)) / sp.factorial(j)
+        if v.has(sp.zoo, sp.nan, sp.oo, -sp.oo):
+            raise InputError(f"{what} is not analytic at {t} = {t0} (its derivative of order {j} is {v})")
+        out.append(v)
+        d = sp.diff(d, t)
+    return out
+
+
+def _taylor_mp(expr, t, t0, n, what):
+    """Taylor coefficients in mpmath at the current precision."""
+    out, d = [], expr
+    for j in range(n + 1):
+        try:
+            v = mpmath.mpmathify(sp.lambdify(t, d, "mpmath")(t0)) / mpmath.factorial(j)
+        except (ZeroDivisionError, ValueError) as exc:
+            raise InputError(f"{what} is not analytic at {t} = {t0}: {exc}")
+        if not mpmath.isfinite(v):
+            raise InputError(f"{what} is not analytic at {t} = {t0} (derivative of order {j} is {v})")
+        out.append(v)
+        d = sp.diff(d, t)
+    return out
+
+
+def _finish(terms, extra, coefficients, kind, point, order, dps):
+    """Sum the terms, estimate the error from the omitted terms, judge success."""
+    mags = [abs(complex(z)) for z in terms + extra]
+    err = math.hypot(mags[order + 1], mags[order + 2])
+    ok = all(math.isfinite(m) for m in mags) and (order == 0 or mags[order + 1] <= mags[order])
+    if ok:
+        msg = f"{order + 1} term(s); the first omitted term is {mags[order + 1]:.3g}"
+    else:
+        m = min(range(order + 2), key=lambda i: mags[i])
+        msg = (f"the terms grow at the truncation point (|t_{order}| = {mags[order]:.3g}, "
+               f"|t_{order + 1}| = {mags[order + 1]:.3g}): the series is past its smallest term; "
+               f"take order <= {max(m - 1, 0)} or a larger parameter")
+    value = mpmath.fsum(terms) if dps is not None else complex(sum(complex(z) for z in terms))
+    if dps is None:
+        terms = [complex(z) for z in terms]
+    return AsymptoticSeries(terms, value, err, order, ok, msg, coefficients, kind, point)
+
+
+# -- saddle points ------------------------------------------------------------
+@functools.lru_cache(maxsize=None)
+def _generic_saddle(s):
+    """F_s = [tau^(2s)] q(tau) (1 + B(tau))^(-(s+1/2)) in symbols b_1..b_2s (B = sum b_j tau^j), q_0..q_2s.
+
+    Returns (expression, symbols, mpmath function of the symbols); computed once per s.
+    """
+    n = 2 * s
+    b = sp.symbols(f"b1:{n + 1}") if n else ()
+    q = sp.symbols(f"q0:{n + 1}")
+    m = -sp.Rational(2 * s + 1, 2)
+    B = [sp.Integer(0)] + list(b)                       # coefficient list of B, degree <= n
+    total = [sp.Integer(1)] + [sp.Integer(0)] * n       # (1 + B)^m = sum_k binom(m, k) B^k
+    power = [sp.Integer(1)] + [sp.Integer(0)] * n
+    for kk in range(1, n + 1):
+        power = [sp.expand(sum(power[i] * B[j - i] for i in range(j))) for j in range(n + 1)]
+        bc = sp.binomial(m, kk)
+        total = [total[j] + bc * power[j] for j in range(n + 1)]
+    expr = sp.expand(sum(q[i] * total[n - i] for i in range(n + 1)))
+    syms = tuple(b) + tuple(q)
+    return expr, syms, sp.lambdify(syms, expr, "mpmath")
+
+
+def _saddle_data(p, q, t, t0, nterms, exact, direction):
+    """Coefficients c_s, s < nterms, and (t0, p(t0)); exact sympy or mpmath numbers."""
+    n = 2 * nterms
+    dp = sp.diff(p, t)
+    if exact:
+        d1 = sp.simplify(dp.subs(t, t0))
+        if d1 != 0:
+            raise InputError(f"{t} = {t0} is not a saddle point: p'({t0}) = {d1} != 0; pass a root of p'")
+        P = _taylor_exact(p, t, t0, n, "the exponent p")
+        Qc = _taylor_exact(q, t, t0, n - 2, "the amplitude q")
+    else:
+        t0 = mpmath.mpc(complex(t0)) if not isinstance(t0, mpmath.mpc) else t0
+        f1, f2 = sp.lambdify(t, dp, "mpmath"), sp.lambdify(t, sp.diff(dp, t), "mpmath")
+        for it in range(60):                            # polish a rounded saddle by Newton's method
+            step = f1(t0) / f2(t0)
+            if it == 0 and abs(step) > 1e-6 * (1 + abs(t0)):
+                raise InputError(f"{t} = {complex(t0)} is not a saddle point: p' = {complex(f1(t0)):.3g} there "
+                                 f"(a Newton step of {complex(step):.3g}); pass a root of p'")
+            t0 -= step
+            if abs(step) <= mpmath.eps * 4 * (1 + abs(t0)):
+                break
+        P = _taylor_mp(p, t, t0, n, "the exponent p")
+        Qc = _taylor_mp(q, t, t0, n - 2, "the amplitude q")
+    if (P[2] == 0) if exact else (abs(P[2]) <= 1e3 * mpmath.eps * max(1, abs(P[0]))):
+        raise InputError(f"{t} = {t0} is a degenerate saddle (p''(t0) = 0, coalescing saddles): the simple "
+                         f"saddle-point series does not apply there (Bleistein-Handelsman ch. 9: uniform expansions)")
+    r = 1 / (sp.sqrt(-P[2]) if exact else mpmath.sqrt(-P[2]))
+    if direction is not None:
+        dv = complex(direction)
+        proj = (complex(sp.N(r)) * dv.conjugate()).real
+        if abs(proj) <= 1e-9 * abs(complex(sp.N(r))) * abs(dv):
+            raise InputError(f"direction {direction} is perpendicular to the steepest-descent path at the saddle "
+                             f"(along the steepest ascent): give a direction along the path, e.g. {complex(sp.N(r)):.3g}")
+        r = -r if proj < 0 else r
+    cs = []
+    for s in range(nterms):
+        expr, syms, fun = _generic_saddle(s)
+        args = [P[j + 2] / P[2] for j in range(1, 2 * s + 1)] + list(Qc[:2 * s + 1])
+        if exact:
+            F = expr.xreplace(dict(zip(syms, args)))
+            c = sp.simplify(sp.gamma(sp.Rational(2 * s + 1, 2)) * r ** (2 * s + 1) * F)
+        else:
+            c = mpmath.gamma(s + mpmath.mpf(1) / 2) * r ** (2 * s + 1) * fun(*args)
+        cs.append(c)
+    return cs, t0, P[0]
+
+
+def saddle_coefficients(p, q, t, t0, order, *, direction=None):
+    """Exact coefficients of the saddle-point expansion (Laplace's method).
+
+    ``int exp(lam p(t)) q(t) dt ~ exp(lam p(t0)) sum_{s=0}^{order} c_s lam^(-s-1/2)``
+    over the steepest-descent path through the simple saddle t0.
+
+    Parameters
+    ----------
+    p, q : sympy expressions in t   exponent and amplitude, analytic at t0
+    t : sympy Symbol
+    t0 : sympy number or expression  the saddle (p'(t0) = 0, p''(t0) != 0)
+    order : int                      last index s returned
+    direction : complex, optional    direction in which the path crosses t0; default: the
+                                     principal root r = (-P_2)^(-1/2), i.e. Re(dt) > 0
+
+    Returns
+    -------
+    list of sympy expressions c_0..c_order (exact if p, q, t0 contain no Floats).
+
+    Raises
+    ------
+    InputError   bad order, t0 not a saddle, degenerate saddle, q or p not analytic at t0.
+
+    References
+    ----------
+    NIST DLMF 2.4.14-2.4.15; Bleistein and Handelsman (1986), sec. 7.2.
+
+    Examples
+    --------
+    Ai(z) at the saddle k = i of ``i(k^3/3 + k)`` (z = 1, scaled, DLMF 9.7.5):
+
+    >>> import sympy as sp
+    >>> k = sp.Symbol("k")
+    >>> c = saddle_coefficients(sp.I*(k**3/3 + k), sp.Integer(1), k, sp.I, 1)
+    >>> c[0], c[1]
+    (sqrt(pi), -5*sqrt(pi)/48)
+    """
+    _check_order(order)
+    p, q, t0 = _sym(p, "p"), _sym(q, "q"), _sym(t0, "t0")
+    if not isinstance(t, sp.Symbol):
+        raise InputError(f"t must be a sympy Symbol, got {t!r}")
+    exact = _is_exact(p, q, t0)
+    if not exact:
+        with mpmath.workdps(30):
+            cs = _saddle_data(p, q, t, mpmath.mpc(complex(sp.N(t0))), order + 1, False, direction)[0]
+        return [sp.sympify(complex(c)) for c in cs]
+    return _saddle_data(p, q, t, t0, order + 1, True, direction)[0]
+
+
+def saddle_series(p, q, t, t0, order, *, lam=1, direction=None, dps=None, _p0=None):
+    """Numeric saddle-point series of ``int exp(lam p(t)) q(t) dt`` with an error estimate.
+
+    Parameters as in :func:`saddle_coefficients`; ``lam > 0`` is the large parameter (use
+    ``lam = 1`` with the full exponent, e.g. ``p = i k x + E(k)``); ``dps`` the mpmath precision
+    (None: double, returns complex).  t0 may be rounded: it is polished by Newton's method.
+
+    Returns
+    -------
+    AsymptoticSeries with terms ``exp(lam p0) c_s lam^(-s-1/2)``, s = 0..order.
+
+    Examples
+    --------
+    >>> import sympy as sp
+    >>> from scipy.special import airy
+    >>> k = sp.Symbol("k")
+    >>> res = saddle_series(sp.I*(k**3/3 + 10*k), 1, k, 1j*10**0.5, 4)
+    >>> ai = res.value / (2*3.141592653589793)          # DLMF 9.5.4
+    >>> abs(ai - airy(10.0)[0]) <= res.error_estimate / (2*3.141592653589793)
+    True
+    """
+    _check_order(order), _check_dps(dps)
+    p, q = _sym(p, "p"), _sym(q, "q")
+    try:
+        lamv = float(lam)
+    except (TypeError, ValueError):
+        raise InputError(f"lam must be a positive real number, got {lam!r}")
+    if not (lamv > 0 and math.isfinite(lamv)):
+        raise InputError(f"lam must be a positive real number, got {lam!r}")
+    with mpmath.workdps(dps or 15):
+        t0s = _sym(t0, "t0")
+        t0v = mpmath.mpc(sp.N(sp.re(t0s), mpmath.mp.dps + 5), sp.N(sp.im(t0s), mpmath.mp.dps + 5))
+        cs, t0v, p0 = _saddle_data(p, q, t, t0v, order + 3, False, direction)
+        p0 = p0 if _p0 is None else _p0(t0v)
+        L = mpmath.mpf(lam)
+        pre = mpmath.exp(L * p0)
+        terms = [pre * c * L ** (-s - mpmath.mpf(1) / 2) for s, c in enumerate(cs)]
+        return _finish(terms[:order + 1], terms[order + 1:], cs[:order + 1], "saddle",
+                       complex(t0v) if dps is None else t0v, order, dps)
+
+
+# -- Watson's lemma and branch points -----------------------------------------------
+def _check_nu(nu, kind):
+    nu = _sym(nu, "nu")
+    nuv = complex(sp.N(nu))
+    integer = abs(nuv.imag) < 1e-14 and abs(nuv.real - round(nuv.real)) < 1e-14
+    if kind == "loop" and integer:
+        raise InputError(f"nu = {nu} is an integer: k_b is not a branch point (the loop gives a residue "
+                         f"or zero); the Hankel-loop expansion needs a non-integer exponent")
+    if kind in ("watson", "half_line") and nuv.real <= -1:
+        raise InputError(f"the integral from the endpoint diverges for Re(nu) = {nuv.real:g} <= -1; "
+                         f"use kind='loop' for the Hankel loop")
+    if kind not in ("loop", "half_line", "watson"):
+        raise InputError(f"kind must be 'loop' or 'half_line', got {kind!r}")
+    return nu
+
+
+def watson_coefficients(h, t, nu, order):
+    """Exact coefficients ``h_n Gamma(nu + n + 1)``, n = 0..order, of Watson's lemma.
+
+    ``int_0^oo exp(-x t) t^nu h(t) dt ~ sum_n h_n Gamma(nu + n + 1) x^(-nu-n-1)`` (x -> +oo),
+    with ``h(t) = sum h_n t^n`` analytic at 0 and Re(nu) > -1.
+
+    References
+    ----------
+    NIST DLMF 2.3.2 (Watson's lemma); Bleistein and Handelsman (1986), sec. 4.1.
+
+    Examples
+    --------
+    >>> import sympy as sp
+    >>> t = sp.Symbol("t")
+    >>> watson_coefficients(1/(1 + t), t, 0, 3)        # int exp(-xt)/(1+t) dt ~ sum (-1)^n n!/x^(n+1)
+    [1, -1, 2, -6]
+    """
+    _check_order(order)
+    h, nu = _sym(h, "h"), _check_nu(nu, "watson")
+    hn = _taylor_exact(h, t, sp.Integer(0), order, "h")
+    return [sp.simplify(c * sp.gamma(nu + n + 1)) for n, c in enumerate(hn)]
+
+
+def watson_series(h, t, nu, x, order, *, dps=None):
+    """Numeric Watson's-lemma series of ``int_0^oo exp(-x t) t^nu h(t) dt`` (x > 0) with error estimate.
+
+    Examples
+    --------
+    >>> import sympy as sp
+    >>> t = sp.Symbol("t")
+    >>> res = watson_series(1/(1 + t), t, 0, 20.0, 3)
+    >>> round(res.value.real, 6), res.success
+    (0.047625, True)
+    """
+    _check_order(order), _check_dps(dps)
+    xv = check_x(x)
+    if xv <= 0:
+        raise InputError(f"Watson's lemma needs x > 0 here, got {x!r}")
+    cs = watson_coefficients(h, t, nu, order + 2)
+    with mpmath.workdps(dps or 15):
+        X = mpmath.mpf(sp.N(sp.Rational(repr(xv)) if dps else xv, (dps or 15) + 5))
+        nuv = mpmath.mpmathify(complex(sp.N(nu, (dps or 15) + 5)))
+        terms = [mpmath.mpmathify(sp.N(c, (dps or 15) + 5)) * X ** (-(nuv + n + 1)) for n, c in enumerate(cs)]
+        return _finish(terms[:order + 1], terms[order + 1:], cs[:order + 1], "watson", 0, order, dps)
+
+
+def _loop_from_taylor(hn, nu, theta, kind):
+    w = sp.exp(2 * sp.pi * sp.I * nu) - 1 if kind == "loop" else sp.Integer(1)
+    return [sp.simplify(w * sp.exp(sp.I * (nu + n + 1) * theta) * c * sp.gamma(nu + n + 1)) for n, c in enumerate(hn)]
+
+
+def branch_point_coefficients(h, k, kb, nu, order, *, side=1, theta=None, kind="loop"):
+    """Exact coefficients C_n of the Hankel-loop (or half-line) expansion at a branch point.
+
+    ``int exp(i k x) (k - k_b)^nu h(k) dk ~ exp(i k_b x) sum_{n=0}^{order} C_n |x|^(-nu-n-1)``
+    for the loop whose legs run along ``k_b + (i/x) s``, s > 0, from infinity round k_b
+    counter-clockwise and back (kind="loop"), or for the half line from k_b (kind="half_line").
+
+    Parameters
+    ----------
+    h : sympy expression in k, analytic at k_b
+    k : sympy Symbol
+    kb, nu : sympy numbers        the branch point and its exponent (non-integer for a loop)
+    order : int
+    side : {1, -1}                sign of x (the ray points to +i oo for x > 0, to -i oo for x < 0)
+    theta : sympy number, optional   arg(k - k_b) on the starting leg; default the principal
+                                     value ``side * pi/2``
+
+    Returns
+    -------
+    list of sympy expressions C_0..C_order.
+
+    References
+    ----------
+    NIST DLMF 2.3.2, 5.9.2 (Hankel's loop); Bleistein and Handelsman (1986), sec. 4.1.
+
+    Examples
+    --------
+    Hankel's H0(1): the loop of ``exp(i k x) (k^2 - 1)^(-1/2)`` round k = 1 (DLMF 10.17.5):
+
+    >>> import sympy as sp
+    >>> k = sp.Symbol("k")
+    >>> C = branch_point_coefficients((k + 1)**sp.Rational(-1, 2), k, 1, sp.Rational(-1, 2), 1)
+    >>> [sp.nsimplify(sp.expand(c / C[0])) for c in C]
+    [1, -I/8]
+    """
+    _check_order(order)
+    h, kb, nu = _sym(h, "h"), _sym(kb, "kb"), _check_nu(nu, kind)
+    if side not in (1, -1):
+        raise InputError(f"side must be +1 or -1 (the sign of x), got {side!r}")
+    theta = side * sp.pi / 2 if theta is None else _sym(theta, "theta")
+    return _loop_from_taylor(_taylor_exact(h, k, kb, order, "h"), nu, theta, kind)
+
+
+def _bp_numeric(C, kb, nu, x, order, kind, dps, point):
+    with mpmath.workdps(dps or 15):
+        X = abs(mpmath.mpf(sp.N(sp.Rational(repr(x)), (dps or 15) + 5)))
+        nuv = mpmath.mpmathify(complex(sp.N(nu, (dps or 15) + 5))) if dps is None else \
+            mpmath.mpc(sp.N(sp.re(nu), dps + 5), sp.N(sp.im(nu), dps + 5))
+        kbv = mpmath.mpc(sp.N(sp.re(kb), (dps or 15) + 5), sp.N(sp.im(kb), (dps or 15) + 5))
+        pre = mpmath.exp(1j * kbv * mpmath.mpf(sp.N(sp.Rational(repr(x)), (dps or 15) + 5)))
+        terms = [pre * mpmath.mpc(sp.N(sp.re(c), (dps or 15) + 5), sp.N(sp.im(c), (dps or 15) + 5))
+                 * X ** (-(nuv + n + 1)) for n, c in enumerate(C)]
+        return _finish(terms[:order + 1], terms[order + 1:], C[:order + 1], kind, point, order, dps)
+
+
+def branch_point_series(h, k, kb, nu, x, order, *, theta=None, kind="loop", dps=None):
+    """Numeric branch-point (Watson) series at position x with an error estimate.
+
+    See :func:`branch_point_coefficients`; the side is the sign of x.
+
+    Examples
+    --------
+    >>> import sympy as sp
+    >>> from scipy.special import hankel1
+    >>> k = sp.Symbol("k")
+    >>> res = branch_point_series((k + 1)**sp.Rational(-1, 2), k, 1, sp.Rational(-1, 2), 50.0, 3,
+    ...                           kind="half_line")
+    >>> h0 = 2 / (1j * 3.141592653589793) * res.value    # DLMF 10.9.? : H0(1) = (2/(i pi)) int_1^(1+i oo)
+    >>> abs(h0 - hankel1(0, 50.0)) <= 2 / 3.14159 * res.error_estimate
+    True
+    """
+    _check_order(order), _check_dps(dps)
+    xv = check_x(x)
+    if xv == 0:
+        raise InputError("x = 0: the branch-point expansion is in powers of 1/|x|; take |x| large")
+    C = branch_point_coefficients(h, k, kb, nu, order + 2, side=1 if xv > 0 else -1, theta=theta, kind=kind)
+    return _bp_numeric(C, _sym(kb, "kb"), _sym(nu, "nu"), xv, order, kind, dps, complex(sp.N(kb)))
+
+
+# -- convenience functions on a KSpaceRepresentation -----------------------------------
+def _reduce(angle, lo):
+    a = (angle - lo) % (2 * math.pi)
+    return lo + (a if a > 1e-12 else 2 * math.pi)
+
+
+def _exact_angle(a):
+    r = sp.nsimplify(a / math.pi, tolerance=1e-13, rational=True)
+    return r * sp.pi if r.q <= 1000 else sp.Float(a, 30)
+
+
+def _cut_log_mp(rep, z):
+    ang = _reduce(float(mpmath.arg(z)), rep.cut_angle)            # cut-plane sheet (fourier.py)
+    a = mpmath.arg(z) + 2 * mpmath.pi * round((ang - float(mpmath.arg(z))) / (2 * math.pi))
+    return mpmath.log(abs(z)) + 1j * a
+
+
+def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, dps=None):
+    """Saddle-point series of the contribution of one saddle to ``phi^(n)(x)``.
+
+    The integrand is ``(i k)^n exp(i k x + E(k))`` with ``f = exp(E)`` on the cut-plane branch
+    at the saddle (the branch of ``rep``'s contours before they cross a cut); the terms are those
+    of :func:`saddle_series` with ``lam = 1``, each smaller than the last by a factor of order
+    ``1/|Phi''|^(3/2) * |Phi'''|`` (a power of 1/x for large |x|).
+
+    Parameters
+    ----------
+    rep : KSpaceRepresentation
+    x : float
+    saddle : complex or int    a critical point of ``i k x + E(k)`` (an index into
+                               ``contourkit.saddles.critical_points(rep, x)``, or a point near one,
+                               e.g. from ``rep.saddles(x)``)
+    order : int
+    derivative, direction, dps : see above and :func:`saddle_coefficients`
+
+    Examples
+    --------
+    >>> import sympy as sp, contourkit as ck
+    >>> from scipy.special import airy
+    >>> X = sp.Symbol("x"); y = sp.Function("y")
+    >>> rep = ck.ModeEquation.from_ode(y(X).diff(X, 2) - X*y(X), y, X).fourier()
+    >>> res = saddle_contribution(rep, 10.0, 1j*10**0.5, 3)
+    >>> abs(res.value / (2*3.141592653589793) - airy(10.0)[0]) < res.error_estimate
+    True
+    """
+    _check_order(order)
+    xv = check_x(x)
+    if isinstance(derivative, bool) or not isinstance(derivative, int) or derivative < 0:
+        raise InputError(f"derivative must be a non-negative int, got {derivative!r}")
+    crit = list(critical_points(rep, xv))
+    if not crit:
+        raise InputError(f"i k x + E(k) has no saddle point at x = {x}")
+    if isinstance(saddle, int) and not isinstance(saddle, bool):
+        if not 0 <= saddle < len(crit):
+            raise InputError(f"saddle index {saddle} out of range: there are {len(crit)} saddles at x = {x}")
+        k0 = crit[saddle]
+    else:
+        try:
+            s = complex(saddle)
+        except (TypeError, ValueError):
+            raise InputError(f"saddle must be a complex number or an index, got {saddle!r}")
+        k0 = min(crit, key=lambda c: abs(c - s))
+        others = [abs(k0 - c) for c in crit if c is not k0] + [abs(k0 - kj) for kj in rep._kj]
+        if abs(k0 - s) > max(1e-8 * (1 + abs(k0)), 0.1 * min(others + [1.0])):
+            raise InputError(f"{saddle} is not a saddle point of i k x + E(k) at x = {x}; the saddles are "
+                             f"{[complex(round(c.real, 10), round(c.imag, 10)) for c in crit]}")
+    if any(abs(k0 - kj) < 1e-8 * (1 + abs(kj)) for kj in rep._kj):
+        raise InputError(f"the saddle {k0} sits on a singular point: use branch_point_contribution")
+    p = sp.I * K * sp.Rational(repr(xv)) + rep.exponent
+    q = (sp.I * K) ** derivative
+
+    def p0(kk):                                            # Phi(k0) on the cut-plane branch
+        Q, kj, nu, ess = rep.mp_data(mpmath.mp.dps)
+        v = 1j * mpmath.mpf(sp.N(sp.Rational(repr(xv)), mpmath.mp.dps + 5)) * kk + (mpmath.polyval(Q, kk) if Q else 0)
+        for j in range(len(kj)):
+            v += nu[j] * _cut_log_mp(rep, kk - kj[j]) + sum(c * (kk - kj[j]) ** (-m) for m, c in enumerate(ess[j], 1))
+        return v
+
+    return saddle_series(p, q, K, complex(k0), order, direction=direction, dps=dps, _p0=p0)
+
+
+def _rep_h_taylor(rep, j, n, derivative):
+    """Exact Taylor coefficients at k_j of h = (i k)^d exp(E - nu_j log(k - k_j)) (cut-plane branch)."""
+    s = rep.singularities[j]
+    kb = s.point
+    tau = sp.Symbol("tau")
+    Qs = sp.Poly(sp.expand(rep.polynomial_part.as_expr().subs(K, kb + tau)), tau)
+    a = [Qs.coeff_monomial(tau ** m) for m in range(n + 1)]
+    cut = rep.cut_angle
+    for i, si in enumerate(rep.singularities):
+        if i == j:
+            continue
+        d = sp.simplify(kb - si.point)
+        ang = float(sp.N(sp.arg(d), 30))
+        arg = sp.arg(d) + (2 * sp.pi if _reduce(ang, cut) - ang > 1 else 0) - (2 * sp.pi if ang - _reduce(ang, cut) > 1 else 0)
+        a[0] += si.exponent * (sp.log(sp.Abs(d)) + sp.I * arg)
+        for m in range(1, n + 1):
+            a[m] += si.exponent * sp.Integer(-1) ** (m + 1) / (m * d ** m)
+            a[m] += sum(c * sp.binomial(-pp, m) * d ** (-pp - m) for pp, c in enumerate(si.essential, 1))
+        a[0] += sum(c * d ** (-pp) for pp, c in enumerate(si.essential, 1))
+    b = [sp.Integer(1)]                                     # exp of the series: b_m = (1/m) sum j a_j b_{m-j}
+    for m in range(1, n + 1):
+        b.append(sp.expand(sum(i * a[i] * b[m - i] for i in range(1, m + 1)) / m))
+    e0 = sp.exp(a[0])
+    pol = sp.Poly(sp.expand((sp.I * (kb + tau)) ** derivative), tau)
+    pc = [pol.coeff_monomial(tau ** m) for m in range(n + 1)]
+    return [sp.simplify(e0 * sum(pc[i] * b[m - i] for i in range(m + 1))) for m in range(n + 1)]
+
+
+def branch_point_contribution(rep, x, point, order, *, derivative=0, kind="loop", dps=None):
+    """Watson expansion in powers of 1/|x| of the loop (or half line) at a branch point of rep.
+
+    ``int (i k)^n exp(i k x) f(k) dk ~ exp(i k_b x) sum C_n |x|^(-nu-n-1)`` with ``f = exp(E)``,
+    nu the exponent at k_b, and the starting leg on the cut-plane branch of rep: for deg Q <= 1
+    this is ``rep.evaluate(Contour.loop(point), x)`` (or ``Contour.half_line``).
+    ``result.coefficients`` holds the exact C_n.
+
+    Examples
+    --------
+    >>> import sympy as sp, contourkit as ck
+    >>> from scipy.special import hankel1
+    >>> X = sp.Symbol("x"); y = sp.Function("y")
+    >>> rep = ck.ModeEquation.from_ode(X*y(X).diff(X, 2) + y(X).diff(X) + X*y(X), y, X).fourier()
+    >>> res = branch_point_contribution(rep, 10.0, 1, 5, kind="half_line")
+    >>> abs(2/(1j*3.141592653589793) * res.value - hankel1(0, 10.0)) < res.error_estimate
+    True
+    """
+    _check_order(order), _check_dps(dps)
+    xv = check_x(x)
+    if xv == 0:
+        raise InputError("x = 0: the branch-point expansion is in powers of 1/|x|; take |x| large")
+    if isinstance(derivative, bool) or not isinstance(derivative, int) or derivative < 0:
+        raise InputError(f"derivative must be a non-negative int, got {derivative!r}")
+    try:
+        pv = complex(point)
+    except (TypeError, ValueError):
+        raise InputError(f"point must be a number, got {point!r}")
+    js = [j for j, s in enumerate(rep.singularities) if abs(s.k - pv) <= 1e-9 * max(1.0, abs(pv))]
+    if not js or rep.singularities[js[0]].kind != "branch point":
+        what = f"a {rep.singularities[js[0]].kind}" if js else "not a singular point"
+        raise InputError(f"{point} is {what}; the branch points of this representation are "
+                         f"{[b for b, _ in rep.branch_points]}")
+    j = js[0]
+    s = rep.singularities[j]
+    ray = math.pi / 2 if xv > 0 else -math.pi / 2          # decay direction of exp(i k x)
+    if rep.degree_Q <= 1:                                   # start on the sheet of rep's loop leg
+        c1 = rep._Q[-2] if rep.degree_Q == 1 else 0j
+        th = math.pi - cmath.phase(1j * xv + c1)
+        theta = _reduce(th, rep.cut_angle) + ((ray - th + math.pi) % (2 * math.pi) - math.pi)
+    else:
+        theta = _reduce(ray, rep.cut_angle)
+    C = _loop_from_taylor(_rep_h_taylor(rep, j, order + 2, derivative), _check_nu(s.exponent, kind),
+                          _exact_angle(theta), kind)
+    return _bp_numeric(C, s.point, s.exponent, xv, order, kind, dps, s.k)

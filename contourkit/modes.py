@@ -1,0 +1,282 @@
+"""WKB mode catalogue on each side of the horizon, from the thimble decomposition.
+
+At a position x far from the horizon (|x| large in the linearised model)
+every critical point of ``i k x + E(k)`` is one WKB mode:
+
+* a critical point next to a branch point k_b (it approaches k_b like 1/x)
+  is a long-wavelength mode with k -> k_b; its thimble is a Hankel loop
+  around k_b, evaluated by Watson's lemma;
+* any other critical point is a saddle mode with k(x) a root of the local
+  dispersion relation D(k; x) = 0: propagating for real k, else growing or
+  decaying (growing away from the horizon: Im k < 0 on the exterior x > 0,
+  Im k > 0 on the interior x < 0).
+
+For real k: group velocity ``v_g = -(dD/dk)/(dD/domega)``, norm sign
+``sign(dD/domega)``, in/out from sign(v_g) and the side.  The flux
+normalisation ``|a|^2 |dD/dk| = 1/(2 pi)`` fixes, for each thimble, the
+constant ``c = lim |I_sigma(x)| sqrt(2 pi |dD/dk|)``: the number of unit-flux
+quanta that the thimble carries.  It is computed as an exact limit:
+
+* saddle modes: the leading saddle-point term
+  ``|I| = exp(Re Phi(s)) sqrt(2 pi / |Phi''(s)|)`` evaluated at a position X'
+  so far out that the first correction (``|Phi'''|^2/|Phi''|^3``) is below the
+  working precision (in mpmath; cost independent of X');
+* branch modes: with ``z = k - k_b``, the Hankel loop of ``z^nu e^{i x z}``
+  entering along the valley direction ``theta`` with ``arg z = alpha`` and
+  leaving with ``arg z = alpha + Delta`` (``Delta = +-2 pi``) is
+  ``(e^{i theta}/|x|) |x|^(-nu) Gamma(nu + 1) e^{i nu alpha} (e^{i nu Delta} - 1)``,
+  so ``c^2 = 2 pi |sigma1'(k_b)| |Gamma(nu+1)|^2 e^{-2 Im(nu) alpha}
+  |e^{i nu Delta} - 1|^2 |h(k_b)|^2 |x|^(-2 Re nu - 1)``, independent of x
+  for the self-adjoint value Re nu = -1/2.
+
+References
+----------
+.. [1] F. P. Bretherton, C. J. R. Garrett, Proc. R. Soc. A 302 (1968) 529
+   (wave action: density ~ |a|^2 dD/domega, flux ~ |a|^2 dD/dk).
+.. [2] NIST DLMF 2.4 (Watson's lemma, loop integrals) and 5.9.2 (Hankel's loop).
+"""
+import math
+from dataclasses import dataclass
+
+import mpmath
+import numpy as np
+import sympy as sp
+
+from . import phase
+from .errors import ScatteringError
+from .results import Mode
+from .saddles import polish
+
+K = sp.Symbol("k")
+
+
+@dataclass
+class ModeData:
+    """A mode at one side, tied to the critical point (thimble) that carries it.
+
+    Attributes
+    ----------
+    index : int        critical point index in the geometry
+    mode : Mode        labels (side, direction, norm, kind, k, group velocity)
+    constant : mpf     flux constant c (None for growing/decaying modes)
+    branch : int       singular-point index for long-wavelength modes, else -1
+    """
+    index: int
+    mode: Mode
+    constant: object
+    branch: int
+
+
+class DispersionDerivatives:
+    """Numeric D, dD/dk and dD/domega of the linearised model at one frequency."""
+
+    def __init__(self, model, omega, eq):
+        X = sp.Symbol("x")
+        w = sp.Symbol("omega")
+        Dw = sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin))
+        self.dDdw = sp.lambdify((K, X), sp.diff(Dw, w).subs(w, sp.nsimplify(omega)), "mpmath")
+        s0, s1 = eq.weyl_symbol
+        self.s0 = sp.Poly(s0, K)
+        self.s1 = sp.Poly(s1, K)
+        self.D = sp.lambdify((K, X), s0 + X * s1, "mpmath")
+        self.dDdk = sp.lambdify((K, X), sp.diff(s0 + X * s1, K), "mpmath")
+        self.ds1 = sp.lambdify(K, sp.diff(s1, K), "mpmath")
+
+    def roots(self, x, dps=30):
+        coeffs = [mpmath.mpc(sp.N(c, dps + 5)) for c in sp.Poly(self.s0.as_expr() + sp.nsimplify(x) * self.s1.as_expr(), K).all_coeffs()]
+        rough = np.roots([complex(c) for c in coeffs])
+        return polish(coeffs, rough, dps)
+
+
+def _side(x):
+    return "exterior" if x > 0 else "interior"
+
+
+def _label(side, k, x, dd, origin):
+    """Mode labels for a real wavenumber k at x."""
+    dk = complex(dd.dDdk(k, x))
+    dw = complex(dd.dDdw(k, x))
+    if dw == 0:
+        raise ScatteringError(f"dD/domega vanishes for the mode k = {complex(k):.6g} at x = {x}: its norm is zero")
+    vg = -dk.real / dw.real
+    toward = vg < 0 if side == "exterior" else vg > 0
+    return Mode(side=side, direction="in" if toward else "out", norm=1 if dw.real > 0 else -1,
+                kind="propagating", k=complex(k), group_velocity=vg, origin=origin, x=x)
+
+
+def _track_root(dd, r, x_from, x_to, dps, steps=80):
+    """Follow a real root of D(k; x) from x_from towards x_to (same sign) by Newton continuation.
+
+    Stops where the root leaves the real axis (a turning point: the mode does
+    not exist closer in); returns the root and the position where it was last real.
+    """
+    r = mpmath.mpc(r)
+    last = (r, x_from)
+    with mpmath.workdps(dps):
+        for t in range(1, steps + 1):
+            x = x_from * (x_to / x_from) ** (mpmath.mpf(t) / steps)
+            rn = r
+            for _ in range(60):
+                step = dd.D(rn, x) / dd.dDdk(rn, x)
+                rn -= step
+                if abs(step) < mpmath.mpf(10) ** (-dps + 5) * (1 + abs(rn)):
+                    break
+            if abs(mpmath.im(rn)) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-30:
+                break
+            r = mpmath.mpc(mpmath.re(rn))
+            last = (r, x)
+    return last
+
+
+def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
+    """One ModeData per critical point of the geometry at x = geom.x (|x| large).
+
+    Dispersive (saddle) modes are labelled at ``label_x`` (same side, default
+    geom.x), where the linearised profile still describes the flow: far out
+    the linear model's flow speed changes sign and would flip the labels of
+    short-wavelength modes, while their flux constants do not change (WKB
+    flux conservation).
+    """
+    x = geom.x
+    side = _side(x)
+    kj = rep._kj
+    out = []
+    roots = dd.roots(x, dps)
+    for i, s in enumerate(geom.crit):
+        b = -1
+        if kj.size:
+            d = np.abs(s - kj)
+            j = int(np.argmin(d))
+            others = np.abs(kj - kj[j])
+            others = others[others > 0]
+            scale = float(np.min(others)) if others.size else max(1.0, abs(kj[j]))
+            if d[j] < branch_radius * scale:
+                b = j
+        if b >= 0:
+            kb = kj[b]
+            r = min(roots, key=lambda z: abs(complex(z) - kb))
+            if abs(kb.imag) > 1e-12 * max(1.0, abs(kb)):
+                kind = "growing" if (kb.imag < 0) == (x > 0) else "decaying"
+                out.append(ModeData(i, Mode(side, "none", 0, kind, complex(kb), origin="branch point", x=x), None, b))
+                continue
+            m = _label(side, mpmath.mpf(float(mpmath.re(r))), x, dd, "branch point")
+            m.k = complex(kb)
+            out.append(ModeData(i, m, _branch_constant(rep, geom, i, b, dd, dps), b))
+        else:
+            r = min(roots, key=lambda z: abs(complex(z) - s))
+            rc = complex(r)
+            if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
+                xl = x if label_x is None else label_x
+                rl, xl = _track_root(dd, mpmath.mpf(rc.real), x, xl, dps) if xl != x else (mpmath.mpf(rc.real), x)
+                m = _label(side, mpmath.re(rl), float(xl), dd, "saddle")
+                m.k = rc
+                out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1))
+            else:
+                kind = "growing" if (rc.imag < 0) == (x > 0) else "decaying"
+                out.append(ModeData(i, Mode(side, "none", 0, kind, rc, origin="saddle", x=x), None, -1))
+    return out
+
+
+def _branch_constant(rep, geom, i, b, dd, dps):
+    t = geom.thimbles[i]
+    x = geom.x
+    theta = math.pi / 2 if x > 0 else -math.pi / 2
+    a_in = t.minus.logs[-1][b].imag
+    a_out = t.plus.logs[-1][b].imag
+    m_in = round((a_in - theta) / (2 * math.pi))
+    m_out = round((a_out - theta) / (2 * math.pi))
+    delta = 2 * math.pi * (m_out - m_in)
+    if abs(abs(delta) - 2 * math.pi) > 1e-9:
+        raise ScatteringError(f"the thimble at the branch point {rep.singularities[b].point} does not encircle it "
+                              f"(winding {delta / (2 * math.pi):.3g}); the geometry at x = {x} is not asymptotic yet")
+    with mpmath.workdps(dps + 10):
+        Q, kjm, num, ess = rep.mp_data(dps)
+        nu = num[b]
+        if abs(mpmath.re(nu) + mpmath.mpf(1) / 2) > mpmath.mpf(10) ** (-12):
+            raise ScatteringError(f"the exponent {complex(nu):.6g} at {rep.singularities[b].point} has real part "
+                                  f"!= -1/2: the model is not formally self-adjoint there and the flux of the "
+                                  f"long-wavelength mode is not conserved")
+        alpha = theta + 2 * mpmath.pi * m_in
+        sig = mpmath.mpc(t.sigma)
+        ls = phase.to_mp_logs(t.plus.logs[0], (Q, kjm, num, ess), sig, t.sigma)
+        kb = kjm[b]
+        lb = phase.continue_logs_mp((Q, kjm, num, ess), sig, ls, kb + (sig - kb) * mpmath.mpf(10) ** (-dps))
+        # h(k_b): everything but the (k - k_b)^nu factor and e^{i k_b x} (modulus one for real k_b)
+        logh = (mpmath.polyval(Q, kb) if Q else 0)
+        for j in range(len(kjm)):
+            if j != b:
+                logh += num[j] * lb[j]
+            for p, c in enumerate(ess[j], start=1):
+                logh += c * (kb - kjm[j]) ** (-p)
+        h2 = mpmath.exp(2 * mpmath.re(logh))
+        loop = abs(mpmath.gamma(nu + 1)) ** 2 * mpmath.exp(-2 * mpmath.im(nu) * alpha) * \
+            abs(mpmath.expj(nu * delta) - 1) ** 2
+        c2 = 2 * mpmath.pi * abs(dd.ds1(kb)) * loop * h2
+        return mpmath.sqrt(c2)
+
+
+def _saddle_constant(rep, geom, i, dd, dps):
+    """Flux constant of a propagating saddle mode: the leading term pushed to X' -> infinity."""
+    t = geom.thimbles[i]
+    x0 = geom.x
+    with mpmath.workdps(dps + 15):
+        data = rep.mp_data(dps + 5)
+        s = mpmath.mpc(t.sigma)
+        logs = phase.to_mp_logs(t.plus.logs[0], data, s, t.sigma)
+        x = mpmath.mpf(x0)
+        target = mpmath.mpf(10) ** (-(dps + 2))
+        for _ in range(200):
+            f2, f3 = _phi_derivs(data, x, s)
+            if abs(f3) ** 2 / abs(f2) ** 3 < target:
+                break
+            xn = x * 4
+            # continue the critical point: scale guess from the local balance, then Newton on Phi'
+            q = rep.degree_Q
+            guess = s * (mpmath.mpf(4) ** (mpmath.mpf(1) / (q - 1)) if q >= 2 else 1)
+            sn = _newton_crit(data, xn, guess, dps + 10)
+            logs = phase.continue_logs_mp(data, s, logs, sn)
+            s, x = sn, xn
+        else:
+            raise ScatteringError("the saddle-point limit did not converge for a dispersive mode")
+        Phi = phase.phi_mp(data, x, s, logs)
+        f2, _ = _phi_derivs(data, x, s)
+        I2 = mpmath.exp(2 * mpmath.re(Phi)) * 2 * mpmath.pi / abs(f2)
+        c2 = I2 * 2 * mpmath.pi * abs(dd.dDdk(s, x))
+        return mpmath.sqrt(c2)
+
+
+def _phi_derivs(data, x, k):
+    Q, kj, nu, ess = data
+    d2 = mpmath.polyval(_polyder(_polyder(Q)), k) if len(Q) > 2 else mpmath.mpf(0)
+    d3 = mpmath.polyval(_polyder(_polyder(_polyder(Q))), k) if len(Q) > 3 else mpmath.mpf(0)
+    for j in range(len(kj)):
+        z = k - kj[j]
+        d2 -= nu[j] / z ** 2
+        d3 += 2 * nu[j] / z ** 3
+        for p, c in enumerate(ess[j], start=1):
+            d2 += p * (p + 1) * c * z ** (-p - 2)
+            d3 -= p * (p + 1) * (p + 2) * c * z ** (-p - 3)
+    return d2, d3
+
+
+def _polyder(c):
+    n = len(c) - 1
+    return [c[i] * (n - i) for i in range(n)] if n > 0 else [mpmath.mpf(0)]
+
+
+def _newton_crit(data, x, k, dps):
+    Q, kj, nu, ess = data
+    Qp = _polyder(Q) if Q else [mpmath.mpf(0)]
+    for _ in range(200):
+        f1 = mpmath.j * x + mpmath.polyval(Qp, k)
+        for j in range(len(kj)):
+            z = k - kj[j]
+            f1 += nu[j] / z
+            for p, c in enumerate(ess[j], start=1):
+                f1 -= p * c * z ** (-p - 1)
+        f2, _ = _phi_derivs(data, x, k)
+        step = f1 / f2
+        k = k - step
+        if abs(step) < mpmath.mpf(10) ** (-dps) * abs(k):
+            return k
+    raise ScatteringError("Newton's method for a critical point did not converge")

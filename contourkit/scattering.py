@@ -1,0 +1,232 @@
+"""Norm-weighted S-matrix, Bogoliubov coefficients, temperatures and spectra.
+
+For a horizon model and a frequency omega, the near-horizon ModeEquation has
+a contour basis (``rep.basis()``, as many contours as the order).  Far from
+the horizon on each side every contour is a sum of thimbles with exact
+intersection coefficients (integers times sheet factors ``exp(2 pi i m.nu)``,
+see decompose.py), and each thimble is one WKB mode carrying ``c`` unit-flux
+quanta (modes.py).  So the mode amplitudes of contour C are
+``M[j, C] = c_j N[j, C]``, built from integers and analytic constants with
+no subtraction of large numbers.  Physical solutions have no growing mode;
+for each in-mode the combination with unit amplitude on it and zero on the
+other in-modes gives one column of S (out-mode amplitudes).  Conservation of
+the norm is checked, never assumed: ``unitarity_residual = max|S^dagger
+eta_out S - eta_in|``.
+
+The geometry (thimbles, intersections) is computed in double precision at a
+position X on each side where the saddle configuration is asymptotic (it is
+checked to be unchanged at 2X); the constants and the linear algebra run in
+mpmath at ``dps`` digits (30 by default), so exponentially small
+``|beta|^2`` keep their relative accuracy.
+
+Without dispersion (deg Q <= 1 and no dispersive saddles) there are no
+dispersive in-modes; the thermal factor then comes from the analytic
+structure at large k: the solution analytic in the upper half x-plane behaves
+near the horizon like ``(-i x)^(-mu-1)`` with ``mu`` the sum of the exponents,
+so its amplitudes on the two sides are in the ratio ``exp(pi Im mu)`` and
+``|beta/alpha|^2 = exp(2 pi Im mu) = exp(-2 pi omega/kappa)``.
+
+References
+----------
+.. [1] S. W. Hawking, Commun. Math. Phys. 43 (1975) 199; W. G. Unruh,
+   Phys. Rev. D 14 (1976) 870 (thermal factor from analytic continuation).
+.. [2] S. Corley, Phys. Rev. D 57 (1998) 6280; A. Coutant, R. Parentani,
+   S. Finazzi, Phys. Rev. D 85 (2012) 024021 (k-space S-matrix of
+   dispersive near-horizon flows).
+"""
+import math
+import warnings
+
+import mpmath
+import numpy as np
+
+from .bogoliubov import hawking_figures
+from .decompose import coefficient, decompose
+from .errors import (AccuracyWarning, ContourkitError, InputError, ScatteringError)
+from .modes import DispersionDerivatives, catalogue
+from .results import Mode, ScatteringResult
+
+
+def _check_omega(omega):
+    if isinstance(omega, bool):
+        raise InputError(f"omega must be a positive number, got {omega!r}")
+    try:
+        w = float(omega)
+    except (TypeError, ValueError):
+        raise InputError(f"omega must be a positive number, got {omega!r}")
+    if not math.isfinite(w) or w <= 0:
+        raise InputError(f"omega must be a positive finite frequency, got {omega!r}; the spectrum is symmetric "
+                         f"under omega -> -omega with complex conjugation, so contourkit takes omega > 0")
+    return w
+
+
+def _asymptotic_x(rep, sign):
+    """A position on the given side where every critical point sits in its asymptotic place."""
+    from .saddles import critical_points
+    kj = rep._kj
+    sep = float(np.min([abs(a - b) for i, a in enumerate(kj) for b in kj[i + 1:]] or [1.0]))
+    X = 10.0 / max(sep, 1e-300)
+    for _ in range(60):
+        crit = critical_points(rep, sign * X)
+        near = [float(np.min(np.abs(s - kj))) if kj.size else math.inf for s in crit]
+        ok = all(d < 0.02 * sep or d > 3 * sep for d in near)
+        if ok and sum(d < 0.02 * sep for d in near) == len([s for s in rep.singularities]):
+            return sign * X
+        X *= 2
+    raise ScatteringError("could not find an asymptotic region where every saddle has separated from the "
+                          "branch points; the model may have coalescing saddles at all positions")
+
+
+def _side_data(rep, contours, dd, sign, dps, kappa):
+    X = _asymptotic_x(rep, sign)
+    geoms = []
+    coeffs = []
+    for C in contours:
+        g, cf = decompose(rep, C, X)
+        geoms.append(g)
+        coeffs.append(cf)
+    g0 = geoms[0]
+    lab = sign * min(abs(X), 0.1 / kappa) if kappa else None
+    modes = catalogue(rep, g0, dd, dps=dps, label_x=lab)
+    # intersection coefficient matrix N[mode, contour] at full precision
+    with mpmath.workdps(dps + 10):
+        nu = rep.mp_data(dps)[2]
+        N = mpmath.matrix(len(modes), len(contours))
+        for c, (C, cf) in enumerate(zip(contours, coeffs)):
+            for n, i, cl in cf:
+                N[i, c] = coefficient(rep, C.terms, cl, nu, lambda z: mpmath.expjpi(2 * z))
+    # stability: the same integer structure at 2X
+    for c, C in enumerate(contours):
+        _, cf2 = decompose(rep, C, 2 * X)
+        a = sorted((i, round(abs(n), 6)) for n, i, _ in coeffs[c])
+        b = sorted((i, round(abs(n), 6)) for n, i, _ in cf2)
+        if a != b:
+            raise ScatteringError(f"the thimble decomposition changes between x = {X} and {2 * X}: the "
+                                  f"asymptotic region is not reached (Stokes phenomenon); report this model")
+    return X, modes, N
+
+
+def scatter(model, omega, *, dps=None):
+    """Near-horizon S-matrix of a horizon model at one frequency.
+
+    Parameters
+    ----------
+    model : HorizonModel (catalogue models, model files)
+    omega : float > 0
+    dps : int, optional
+        Decimal digits for the constants and the linear algebra (default 30;
+        the geometry is always double precision).  With dps given the
+        result's thermal_ratio, occupation, alpha and beta are mpmath numbers.
+
+    Returns
+    -------
+    ScatteringResult
+
+    Examples
+    --------
+    >>> import contourkit as ck
+    >>> res = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5).scatter(0.05)
+    >>> abs(res.effective_temperature / res.hawking_temperature - 1) < 0.01
+    True
+    >>> res.unitarity_residual < 1e-10
+    True
+    """
+    w = _check_omega(omega)
+    user_dps = dps
+    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1):
+        raise InputError(f"dps must be a positive integer, got {dps!r}")
+    dps = int(dps) if dps is not None else 30
+    eq = model.mode_equation(w)
+    rep = eq.fourier()
+    kappa = float(model.kappa)
+    if rep.degree_Q < 2:
+        return _nondispersive(model, rep, w, kappa, dps, user_dps)
+    contours = rep.basis()
+    dd = DispersionDerivatives(model, w, eq)
+    Xe, mod_e, Ne = _side_data(rep, contours, dd, +1, dps, kappa)
+    Xi, mod_i, Ni = _side_data(rep, contours, dd, -1, dps, kappa)
+    rows = [(md, Ne, +1) for md in mod_e] + [(md, Ni, -1) for md in mod_i]
+    ins = [(md, N) for md, N, _ in rows if md.mode.kind == "propagating" and md.mode.direction == "in"]
+    outs = [(md, N) for md, N, _ in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
+    grow = [(md, N) for md, N, _ in rows if md.mode.kind == "growing"]
+    n_c = len(contours)
+    if len(ins) + len(grow) != n_c:
+        raise ScatteringError(f"mode counting does not close: {len(ins)} in-modes and {len(grow)} growing modes "
+                              f"for {n_c} independent solutions at omega = {w}; is omega beyond a cut-off "
+                              f"(model.omega_max) or at a coalescence?")
+    with mpmath.workdps(dps + 10):
+        A = mpmath.matrix(n_c, n_c)
+        for r, (md, N) in enumerate(ins):
+            for c in range(n_c):
+                A[r, c] = md.constant * N[md.index, c]
+        for r, (md, N) in enumerate(grow):
+            for c in range(n_c):
+                A[len(ins) + r, c] = N[md.index, c]
+        rhs = mpmath.matrix(n_c, len(ins))
+        for j in range(len(ins)):
+            rhs[j, j] = 1
+        try:
+            Xsol = mpmath.inverse(A) * rhs
+        except ZeroDivisionError:
+            raise ScatteringError(f"the in-mode amplitudes of the contour basis are degenerate at omega = {w}")
+        S = mpmath.matrix(len(outs), len(ins))
+        for o, (md, N) in enumerate(outs):
+            for j in range(len(ins)):
+                S[o, j] = mpmath.fsum(md.constant * N[md.index, c] * Xsol[c, j] for c in range(n_c))
+        eta_in = [md.mode.norm for md, _ in ins]
+        eta_out = [md.mode.norm for md, _ in outs]
+        M = S.H * mpmath.diag(eta_out) * S - mpmath.diag(eta_in)
+        resid = max(abs(M[i, j]) for i in range(M.rows) for j in range(M.cols))
+        in_modes = [md.mode for md, _ in ins]
+        out_modes = [md.mode for md, _ in outs]
+        Sobj = np.array([[S[i, j] for j in range(S.cols)] for i in range(S.rows)], dtype=object)
+        fig = hawking_figures(Sobj, in_modes, out_modes, mpmath.mpf(w), mpmath.mpf(model.kappa))
+    S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
+    return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, dps,
+                   extra={"S_mp": S, "x_exterior": Xe, "x_interior": Xi, "dps_used": dps,
+                          "growing": [md.mode for md, _ in grow]})
+
+
+def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, message=""):
+    def conv(v):
+        return v if user_dps is not None else (float(v) if not isinstance(v, (complex, mpmath.mpc)) else complex(v))
+    ok = resid < 10.0 ** (-min(dps, 15) + 4)
+    msg = message or ("converged" if ok else f"unitarity residual {resid:.3g} is larger than expected")
+    if not ok:
+        warnings.warn(f"S-matrix at omega = {w}: {msg}", AccuracyWarning, stacklevel=3)
+    return ScatteringResult(
+        omega=w, in_modes=in_modes, out_modes=out_modes, S=S, unitarity_residual=resid,
+        hawking_index=fig["hawking_index"], alpha=conv(fig["alpha"]), beta=conv(fig["beta"]),
+        others={k: complex(v) for k, v in fig["others"].items()},
+        thermal_ratio=conv(fig["thermal_ratio"]), occupation=conv(fig["occupation"]),
+        effective_temperature=conv(fig["effective_temperature"]),
+        hawking_temperature=kappa / (2 * math.pi), kappa=kappa, dps=dps,
+        error_estimate=max(resid, 10.0 ** (-dps)), success=ok, message=msg, method="contour", extra=extra)
+
+
+def _nondispersive(model, rep, w, kappa, dps, user_dps):
+    """Thermal factor from the large-k exponent (no dispersive in-modes exist)."""
+    with mpmath.workdps(dps + 10):
+        nus = rep.mp_data(dps)[2]
+        mu = mpmath.fsum(nus)
+        if abs(mpmath.re(mu) + 1) > mpmath.mpf(10) ** (-12):
+            raise ScatteringError(f"the large-k exponent {complex(mu):.6g} has real part != -1: the model is not "
+                                  f"a self-adjoint non-dispersive horizon")
+        ratio = mpmath.exp(2 * mpmath.pi * mpmath.im(mu))          # |beta/alpha|^2
+        alpha = 1 / mpmath.sqrt(1 - ratio)
+        beta = mpmath.sqrt(ratio) * alpha
+        S = mpmath.matrix([[alpha, beta], [beta, alpha]])
+        eta = [1, -1]
+        M = S.H * mpmath.diag(eta) * S - mpmath.diag(eta)
+        resid = max(abs(M[i, j]) for i in range(2) for j in range(2))
+        in_modes = [Mode("exterior", "in", 1, "propagating", 0j, origin="horizon (positive Kruskal frequency)"),
+                    Mode("interior", "in", -1, "propagating", complex(-w), origin="horizon (positive Kruskal frequency)")]
+        out_modes = [Mode("exterior", "out", 1, "propagating", 0j, origin="branch point"),
+                     Mode("interior", "out", -1, "propagating", complex(-w), origin="branch point")]
+        Sobj = np.array([[S[i, j] for j in range(2)] for i in range(2)], dtype=object)
+        fig = hawking_figures(Sobj, in_modes, out_modes, mpmath.mpf(w), mpmath.mpf(model.kappa))
+    S_np = np.array([[complex(S[i, j]) for j in range(2)] for i in range(2)])
+    return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, dps,
+                   extra={"large_k_exponent": complex(mu)},
+                   message="non-dispersive horizon: no dispersive in-modes; |beta/alpha|^2 from the large-k "
+                           "exponent (analytic continuation through the upper half x-plane)")
