@@ -48,6 +48,7 @@ from dataclasses import dataclass, field
 
 import mpmath
 import sympy as sp
+from sympy.utilities.iterables import partitions
 
 from .errors import InputError
 from .fourier import K
@@ -165,14 +166,16 @@ def _generic_saddle(s):
     b = sp.symbols(f"b1:{n + 1}") if n else ()
     q = sp.symbols(f"q0:{n + 1}")
     m = -sp.Rational(2 * s + 1, 2)
-    B = [sp.Integer(0)] + list(b)                       # coefficient list of B, degree <= n
-    total = [sp.Integer(1)] + [sp.Integer(0)] * n       # (1 + B)^m = sum_k binom(m, k) B^k
-    power = [sp.Integer(1)] + [sp.Integer(0)] * n
-    for kk in range(1, n + 1):
-        power = [sp.expand(sum(power[i] * B[j - i] for i in range(j))) for j in range(n + 1)]
-        bc = sp.binomial(m, kk)
-        total = [total[j] + bc * power[j] for j in range(n + 1)]
-    expr = sp.expand(sum(q[i] * total[n - i] for i in range(n + 1)))
+
+    def coeff(N):                       # [tau^N] (1 + B)^m, summed over the partitions of N
+        out = []
+        for part in partitions(N):
+            kk = sum(part.values())
+            w = sp.binomial(m, kk) * sp.factorial(kk) / sp.Mul(*[sp.factorial(e) for e in part.values()])
+            out.append(sp.Mul(w, *[b[j - 1] ** e for j, e in part.items()]))
+        return out if N else [sp.Integer(1)]
+
+    expr = sp.Add(*[q[i] * c for i in range(n + 1) for c in coeff(n - i)])
     syms = tuple(b) + tuple(q)
     return expr, syms, sp.lambdify(syms, expr, "mpmath")
 
@@ -361,8 +364,8 @@ def watson_series(h, t, nu, x, order, *, dps=None):
     >>> import sympy as sp
     >>> t = sp.Symbol("t")
     >>> res = watson_series(1/(1 + t), t, 0, 20.0, 3)
-    >>> round(res.value.real, 6), res.success
-    (0.047625, True)
+    >>> bool(abs(res.value - (1/20 - 1/400 + 2/8000 - 6/160000)) < 1e-15), res.success
+    (True, True)
     """
     _check_order(order), _check_dps(dps)
     xv = check_x(x)
@@ -448,8 +451,8 @@ def branch_point_series(h, k, kb, nu, x, order, *, theta=None, kind="loop", dps=
     >>> k = sp.Symbol("k")
     >>> res = branch_point_series((k + 1)**sp.Rational(-1, 2), k, 1, sp.Rational(-1, 2), 50.0, 3,
     ...                           kind="half_line")
-    >>> h0 = 2 / (1j * 3.141592653589793) * res.value    # DLMF 10.9.? : H0(1) = (2/(i pi)) int_1^(1+i oo)
-    >>> abs(h0 - hankel1(0, 50.0)) <= 2 / 3.14159 * res.error_estimate
+    >>> h0 = 2 / (1j * 3.141592653589793) * res.value    # H0(1) = (2/(i pi)) int_1^(1+i oo), from DLMF 10.9.9
+    >>> bool(abs(h0 - hankel1(0, 50.0)) <= 2 / 3.14159 * res.error_estimate)
     True
     """
     _check_order(order), _check_dps(dps)
@@ -584,7 +587,7 @@ def branch_point_contribution(rep, x, point, order, *, derivative=0, kind="loop"
     >>> X = sp.Symbol("x"); y = sp.Function("y")
     >>> rep = ck.ModeEquation.from_ode(X*y(X).diff(X, 2) + y(X).diff(X) + X*y(X), y, X).fourier()
     >>> res = branch_point_contribution(rep, 10.0, 1, 5, kind="half_line")
-    >>> abs(2/(1j*3.141592653589793) * res.value - hankel1(0, 10.0)) < res.error_estimate
+    >>> bool(abs(2/(1j*3.141592653589793) * res.value - hankel1(0, 10.0)) < res.error_estimate)
     True
     """
     _check_order(order), _check_dps(dps)

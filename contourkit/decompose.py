@@ -23,6 +23,7 @@ import numpy as np
 
 from . import contours as C
 from . import phase
+from .errors import ContourError
 from .paths import thimble
 from .saddles import critical_points
 
@@ -92,7 +93,7 @@ def coefficient(rep, terms, crossing_list, nu, exp2pii):
 
 
 def decompose(rep, contour, x, *, u_stop=40.0):
-    """Thimble coefficients of a contour at x.
+    """Thimble coefficients of a contour (or of a list of contours, sharing one geometry) at x.
 
     Returns
     -------
@@ -100,15 +101,46 @@ def decompose(rep, contour, x, *, u_stop=40.0):
     coeffs : list of (coefficient, thimble index, crossings) with nonzero coefficients;
         crossings is a list of (term index, sign, sheet shift) from which the
         coefficient is recomputed at any precision by :func:`coefficient`.
+        For a list of contours, a list of such lists.
     """
+    many = isinstance(contour, (list, tuple))
+    contours = list(contour) if many else [contour]
     xg = geometry_x(x)
     crit = critical_points(rep, xg)
     if crit.size == 0:
-        from .errors import ContourError
         raise ContourError("the exponent has no critical point at this x; nothing to deform onto")
     logs0 = [phase.cut_plane_logs(rep, s)[0] if rep._kj.size else np.zeros(0, complex) for s in crit]
     phis = np.array([phase.phi(rep, xg, s, l).real for s, l in zip(crit, logs0)])
     level = float(np.min(phis)) - 8.0
+    reps_all = [_representatives(rep, c, xg, crit, level) for c in contours]
+    cmax = -math.inf
+    rmax = 0.0
+    for reps in reps_all:
+        for _, verts, logs in reps:
+            vals = phase.phi(rep, xg, verts, logs).real
+            cmax = max(cmax, float(np.max(vals)))
+            rmax = max(rmax, float(np.max(np.abs(verts))))
+    thims = []
+    out = [[] for _ in contours]
+    exp2 = lambda z: np.exp(2j * math.pi * z)  # noqa: E731
+    nu = list(rep._nu)
+    for i, s in enumerate(crit):
+        u_up = max(cmax - phis[i] + 4.0, 4.0)
+        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax)
+        thims.append(t)
+        for c, (cont, reps) in enumerate(zip(contours, reps_all)):
+            cl = []
+            for ti, (coef, verts, logs) in enumerate(reps):
+                cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_plus, +1)]
+                cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
+            n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
+            size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
+            if cl and abs(n) > 1e-12 * size:
+                out[c].append((n, i, cl))
+    return Geometry(x, xg, crit, thims, u_stop), (out if many else out[0])
+
+
+def _representatives(rep, contour, xg, crit, level):
     reps = []
     for coef, kind, params in contour.terms:
         verts, slog = C.representative(rep, xg, kind, params, crit, level)
@@ -117,34 +149,10 @@ def decompose(rep, contour, x, *, u_stop=40.0):
             j = C._singular_index(rep, params["point"])
             nu = rep._nu[j]
             if nu.real <= -1:
-                from .errors import ContourError
                 raise ContourError(f"a half-line from {rep.singularities[j].point} needs Re(exponent) > -1 "
                                    f"(here {nu:.6g}): the integral diverges at the branch point; use a loop")
-            den = np.exp(2j * math.pi * nu) - 1
-            if abs(den) < 1e-12:
-                from .errors import ContourError
+            if abs(np.exp(2j * math.pi * nu) - 1) < 1e-12:
                 raise ContourError(f"the exponent at {rep.singularities[j].point} is an integer: the loop vanishes "
                                    f"and the half-line is not a closed cycle; use another contour")
         reps.append((coef, verts, logs))
-    cmax = -math.inf
-    rmax = 0.0
-    for _, verts, logs in reps:
-        vals = phase.phi(rep, xg, verts, logs).real
-        cmax = max(cmax, float(np.max(vals)))
-        rmax = max(rmax, float(np.max(np.abs(verts))))
-    thims = []
-    coeffs = []
-    for i, s in enumerate(crit):
-        u_up = max(cmax - phis[i] + 4.0, 4.0)
-        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax)
-        thims.append(t)
-        cl = []
-        for ti, (coef, verts, logs) in enumerate(reps):
-            cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_plus, +1)]
-            cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
-        n = complex(coefficient(rep, contour.terms, cl, list(rep._nu), lambda z: np.exp(2j * math.pi * z)))
-        size = sum(abs(complex(coefficient(rep, contour.terms, [c], list(rep._nu),
-                                           lambda z: np.exp(2j * math.pi * z)))) for c in cl)
-        if cl and abs(n) > 1e-12 * size:
-            coeffs.append((n, i, cl))
-    return Geometry(x, xg, crit, thims, u_stop), coeffs
+    return reps

@@ -215,13 +215,37 @@ class KSpaceRepresentation:
         self._ess = [np.array([complex(sp.N(c, 30)) for c in s.essential], dtype=complex) for s in sings]
         self.degree_Q = Q.degree() if not Q.is_zero else -1
         self.valleys = self._valleys()
-        # fast callables generated once from the sympy expressions (principal logs)
-        self.E_numpy = sp.lambdify(K, self.exponent, "numpy")
-        self.dE_numpy = sp.lambdify(K, self.dexponent, "numpy")
-        self.E_mpmath = sp.lambdify(K, self.exponent, "mpmath")
-        self.dE_mpmath = sp.lambdify(K, self.dexponent, "mpmath")
+        self._callables = {}
         self._mp_cache = {}
         self._geom = {}
+
+    # -- fast callables, generated once (on first use) from the sympy expressions
+    def _callable(self, which, module):
+        key = (which, module)
+        if key not in self._callables:
+            expr = self.exponent if which == "E" else self.dexponent
+            self._callables[key] = sp.lambdify(K, expr, module)
+        return self._callables[key]
+
+    @property
+    def E_numpy(self):
+        """E(k) as a numpy function (principal logarithms, i.e. cuts along the negative real direction)."""
+        return self._callable("E", "numpy")
+
+    @property
+    def dE_numpy(self):
+        """E'(k) as a numpy function (single-valued)."""
+        return self._callable("dE", "numpy")
+
+    @property
+    def E_mpmath(self):
+        """E(k) as an mpmath function (principal logarithms)."""
+        return self._callable("E", "mpmath")
+
+    @property
+    def dE_mpmath(self):
+        """E'(k) as an mpmath function."""
+        return self._callable("dE", "mpmath")
 
     # -- geometry at infinity -----------------------------------------
     def _valleys(self):

@@ -81,6 +81,11 @@ class DispersionDerivatives:
         self.D = sp.lambdify((K, X), s0 + X * s1, "mpmath")
         self.dDdk = sp.lambdify((K, X), sp.diff(s0 + X * s1, K), "mpmath")
         self.ds1 = sp.lambdify(K, sp.diff(s1, K), "mpmath")
+        self.s0_np = np.array([complex(c) for c in self.s0.all_coeffs()])
+        self.s1_np = np.array([complex(c) for c in self.s1.all_coeffs()])
+        n = max(len(self.s0_np), len(self.s1_np))
+        self.s0_np = np.concatenate([np.zeros(n - len(self.s0_np), complex), self.s0_np])
+        self.s1_np = np.concatenate([np.zeros(n - len(self.s1_np), complex), self.s1_np])
 
     def roots(self, x, dps=30):
         coeffs = [mpmath.mpc(sp.N(c, dps + 5)) for c in sp.Poly(self.s0.as_expr() + sp.nsimplify(x) * self.s1.as_expr(), K).all_coeffs()]
@@ -104,27 +109,30 @@ def _label(side, k, x, dd, origin):
                 kind="propagating", k=complex(k), group_velocity=vg, origin=origin, x=x)
 
 
-def _track_root(dd, r, x_from, x_to, dps, steps=80):
+def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
     """Follow a real root of D(k; x) from x_from towards x_to (same sign) by Newton continuation.
 
     Stops where the root leaves the real axis (a turning point: the mode does
-    not exist closer in); returns the root and the position where it was last real.
+    not exist closer in); returns the root and the position where it was last
+    real.  Double precision: only the signs of dD/dk and dD/domega there are used.
     """
-    r = mpmath.mpc(r)
+    r = complex(r)
     last = (r, x_from)
-    with mpmath.workdps(dps):
-        for t in range(1, steps + 1):
-            x = x_from * (x_to / x_from) ** (mpmath.mpf(t) / steps)
-            rn = r
-            for _ in range(60):
-                step = dd.D(rn, x) / dd.dDdk(rn, x)
-                rn -= step
-                if abs(step) < mpmath.mpf(10) ** (-dps + 5) * (1 + abs(rn)):
-                    break
-            if abs(mpmath.im(rn)) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-30:
+    s0, s1 = dd.s0_np, dd.s1_np
+    d0, d1 = np.polyder(s0), np.polyder(s1)
+    for t in range(1, steps + 1):
+        x = x_from * (x_to / x_from) ** (t / steps)
+        c, dc = np.polyadd(s0, x * s1), np.polyadd(d0, x * d1)
+        rn = r
+        for _ in range(60):
+            step = np.polyval(c, rn) / np.polyval(dc, rn)
+            rn -= step
+            if abs(step) < 1e-14 * (1 + abs(rn)):
                 break
-            r = mpmath.mpc(mpmath.re(rn))
-            last = (r, x)
+        if abs(rn.imag) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-300:
+            break
+        r = complex(rn.real)
+        last = (r, x)
     return last
 
 
@@ -167,8 +175,8 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             rc = complex(r)
             if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
                 xl = x if label_x is None else label_x
-                rl, xl = _track_root(dd, mpmath.mpf(rc.real), x, xl, dps) if xl != x else (mpmath.mpf(rc.real), x)
-                m = _label(side, mpmath.re(rl), float(xl), dd, "saddle")
+                rl, xl = _track_root(dd, rc.real, x, xl) if xl != x else (rc.real, x)
+                m = _label(side, mpmath.mpf(complex(rl).real), float(xl), dd, "saddle")
                 m.k = rc
                 out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1))
             else:
@@ -229,10 +237,10 @@ def _saddle_constant(rep, geom, i, dd, dps):
             f2, f3 = _phi_derivs(data, x, s)
             if abs(f3) ** 2 / abs(f2) ** 3 < target:
                 break
-            xn = x * 4
+            xn = x * 16
             # continue the critical point: scale guess from the local balance, then Newton on Phi'
             q = rep.degree_Q
-            guess = s * (mpmath.mpf(4) ** (mpmath.mpf(1) / (q - 1)) if q >= 2 else 1)
+            guess = s * (mpmath.mpf(16) ** (mpmath.mpf(1) / (q - 1)) if q >= 2 else 1)
             sn = _newton_crit(data, xn, guess, dps + 10)
             logs = phase.continue_logs_mp(data, s, logs, sn)
             s, x = sn, xn

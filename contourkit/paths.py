@@ -32,6 +32,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from . import phase
+from ._scalar import ScalarPhase
 from .errors import AccuracyError
 
 
@@ -43,19 +44,6 @@ class Arm:
     end: str                 # "valley", "sink", "source", "level", "stalled"
     sink: int = -1           # index of the singular point for "sink"/"source"
     u: np.ndarray = field(default=None, repr=False)
-
-
-def _local_scale(rep, x, k, crit):
-    """Distance to the nearest singular point or other critical point (lower bound)."""
-    d = math.inf
-    if rep._kj.size:
-        d = float(np.min(np.abs(k - rep._kj)))
-    if crit is not None and len(crit):
-        dc = np.abs(k - crit)
-        dc = dc[dc > 0]
-        if dc.size:
-            d = min(d, float(np.min(dc)))
-    return d
 
 
 def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
@@ -74,88 +62,94 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
                      (Re Phi differs between sheets, so a level alone is no bound)
     crit : array     all critical points (for step control)
     """
+    P = ScalarPhase(rep, x)
+    J = P.J
+    crit = [complex(c) for c in (crit if crit is not None else [])]
+    other = [_other_scale(rep, j) for j in range(J)]
     sgn = 1.0 if ascent else -1.0          # Phi(k) = Phi0 + sgn * u
+    sigma = complex(sigma)
     if logs0 is None:
-        logs0 = phase.cut_plane_logs(rep, sigma)[0] if rep._kj.size else np.zeros(0, complex)
-    phi0 = phase.phi(rep, x, sigma, logs0)
-    f2 = complex(phase.dphi(rep, x, sigma, 2))
-    scale0 = _local_scale(rep, x, sigma, crit)
+        logs0 = list(phase.cut_plane_logs(rep, sigma)[0]) if J else []
+    else:
+        logs0 = list(logs0)
+    phi0 = P.phi(sigma, logs0)
+
+    def local_scale(k):
+        d = P.nearest_singular(k)[0]
+        for c in crit:
+            dc = abs(k - c)
+            if 0 < dc < d:
+                d = dc
+        return d
+
+    f2 = P.d2(sigma)
+    scale0 = local_scale(sigma)
     scale0 = scale0 if math.isfinite(scale0) else max(1.0, abs(sigma))
-    # first point: |Phi''| h^2 / 2 = du0, limited by the local scale
     du0 = 0.02
     h = math.sqrt(2 * du0 / abs(f2)) if f2 != 0 else 0.05 * scale0
     h = min(h, 0.05 * scale0)
     ks, lg, us = [sigma], [logs0], [0.0]
     k = sigma + h * direction
-    logs = phase.continue_logs(rep, sigma, logs0, k) if rep._kj.size else logs0
-    # correct onto the level set Im Phi = Im phi0 with Re given by the actual value
+    logs = P.continue_logs(sigma, logs0, k)
     end = "stalled"
     sink = -1
-    u = float(sgn * (phase.phi(rep, x, k, logs) - phi0).real)
+    u = float(sgn * (P.phi(k, logs) - phi0).real)
     if u <= 0:
         u = du0
     for _ in range(max_steps):
-        # corrector: Phi(k) = phi0 + sgn*u
         target = phi0 + sgn * u
         kc, lc = k, logs
         ok = False
+        prev = ks[-1]
         for _it in range(12):
-            val = phase.phi(rep, x, kc, lc)
-            d1 = complex(phase.dphi(rep, x, kc))
+            val = P.phi(kc, lc)
+            d1 = P.d1(kc)
             if d1 == 0:
                 break
             step = (val - target) / d1
             knew = kc - step
-            lnew = phase.continue_logs(rep, kc, lc, knew) if rep._kj.size else lc
-            kc, lc = knew, lnew
-            if abs(step) <= 1e-10 * abs(kc - ks[-1]) + 1e-300 or \
-                    abs(val - target) <= 2e-15 * (1.0 + abs(target)):
+            lc = P.continue_logs(kc, lc, knew)
+            kc = knew
+            if abs(step) <= 1e-10 * abs(kc - prev) + 1e-300 or abs(val - target) <= 2e-15 * (1.0 + abs(target)):
                 ok = True
                 break
-        prev = ks[-1]
         if not ok or abs(kc - prev) > 3 * max(abs(k - prev), 1e-300) + 1e-14:
-            # shrink the step and retry from the previous vertex
             du_last = u - us[-1]
             if du_last < 1e-12:
                 end = "stalled"
                 break
             u = us[-1] + du_last / 4
-            d1p = complex(phase.dphi(rep, x, prev))
+            d1p = P.d1(prev)
             k = prev + (sgn * (u - us[-1])) / d1p if d1p != 0 else prev
-            logs = phase.continue_logs(rep, prev, lg[-1], k) if rep._kj.size else lg[-1]
+            logs = P.continue_logs(prev, lg[-1], k)
             continue
-        k, logs = complex(kc), np.asarray(lc)
+        k, logs = kc, lc
         ks.append(k)
         lg.append(logs)
         us.append(u)
         if u >= u_stop and (not ascent or abs(k) > r_beyond):
             end = "valley" if not ascent else "level"
             break
-        # singular point approached?
-        if rep._kj.size:
-            dist = np.abs(k - rep._kj)
-            j = int(np.argmin(dist))
-            other = _other_scale(rep, j)
-            if dist[j] < 1e-3 * other:
-                if len(ks) > 2 and dist[j] < abs(ks[-2] - rep._kj[j]):
-                    end, sink = ("source" if ascent else "sink"), j
-                    break
+        if J:
+            dist, j = P.nearest_singular(k)
+            if dist < 1e-3 * other[j] and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]):
+                end, sink = ("source" if ascent else "sink"), j
+                break
         if u_cap is not None and u > u_cap:
             end = "level"
             break
-        # next step size
-        d1 = complex(phase.dphi(rep, x, k))
-        d2 = complex(phase.dphi(rep, x, k, 2))
-        loc = _local_scale(rep, x, k, crit)
-        geo = min(0.25 * abs(d1) / abs(d2) if d2 != 0 else math.inf, 0.2 * loc, 0.5 * max(abs(k), 1e-3) + 0.2 * loc)
+        d1 = P.d1(k)
+        d2 = P.d2(k)
+        loc = local_scale(k)
+        geo = min(0.25 * abs(d1) / abs(d2) if d2 != 0 else math.inf, 0.2 * loc,
+                  0.5 * max(abs(k), 1e-3) + 0.2 * loc)
         if not math.isfinite(geo):
             geo = 0.5 * max(1.0, abs(k))
-        du_geo = geo * abs(d1)
-        du = min(du_geo, 1.0 + 0.25 * u, 2.0 if not ascent else 1e300)
+        du = min(geo * abs(d1), 1.0 + 0.25 * u, 2.0 if not ascent else 1e300)
         du = max(du, 1e-14 * max(1.0, u))
         u = u + du
         k = k + (sgn * du) / d1
-        logs = phase.continue_logs(rep, ks[-1], lg[-1], k) if rep._kj.size else lg[-1]
+        logs = P.continue_logs(ks[-1], lg[-1], k)
     else:
         end = "stalled"
     return Arm(np.array(ks, dtype=complex), np.array(lg, dtype=complex).reshape(len(ks), -1), end, sink,

@@ -79,13 +79,7 @@ def _asymptotic_x(rep, sign):
 
 def _side_data(rep, contours, dd, sign, dps, kappa):
     X = _asymptotic_x(rep, sign)
-    geoms = []
-    coeffs = []
-    for C in contours:
-        g, cf = decompose(rep, C, X)
-        geoms.append(g)
-        coeffs.append(cf)
-    g0 = geoms[0]
+    g0, coeffs = decompose(rep, contours, X)
     lab = sign * min(abs(X), 0.1 / kappa) if kappa else None
     modes = catalogue(rep, g0, dd, dps=dps, label_x=lab)
     # intersection coefficient matrix N[mode, contour] at full precision
@@ -96,8 +90,8 @@ def _side_data(rep, contours, dd, sign, dps, kappa):
             for n, i, cl in cf:
                 N[i, c] = coefficient(rep, C.terms, cl, nu, lambda z: mpmath.expjpi(2 * z))
     # stability: the same integer structure at 2X
-    for c, C in enumerate(contours):
-        _, cf2 = decompose(rep, C, 2 * X)
+    _, cf2s = decompose(rep, contours, 2 * X)
+    for c, cf2 in enumerate(cf2s):
         a = sorted((i, round(abs(n), 6)) for n, i, _ in coeffs[c])
         b = sorted((i, round(abs(n), 6)) for n, i, _ in cf2)
         if a != b:
