@@ -54,7 +54,7 @@ from .errors import InputError
 from .fourier import K
 from .saddles import check_x, critical_points
 
-__all__ = ["AsymptoticSeries", "saddle_coefficients", "saddle_series", "watson_coefficients",
+__all__ = ["AsymptoticSeries", "saddle_formula", "saddle_coefficients", "saddle_series", "watson_coefficients",
            "watson_series", "branch_point_coefficients", "branch_point_series",
            "saddle_contribution", "branch_point_contribution"]
 
@@ -140,7 +140,7 @@ def _taylor_mp(expr, t, t0, n, what):
 def _finish(terms, extra, coefficients, kind, point, order, dps):
     """Sum the terms, estimate the error from the omitted terms, judge success."""
     mags = [abs(complex(z)) for z in terms + extra]
-    err = math.hypot(mags[order + 1], mags[order + 2])
+    err = math.hypot(mags[order + 1], mags[order + 2]) + 8 * float(mpmath.eps) * sum(mags[:order + 1])
     ok = all(math.isfinite(m) for m in mags) and (order == 0 or mags[order + 1] <= mags[order])
     if ok:
         msg = f"{order + 1} term(s); the first omitted term is {mags[order + 1]:.3g}"
@@ -158,26 +158,43 @@ def _finish(terms, extra, coefficients, kind, point, order, dps):
 # -- saddle points ------------------------------------------------------------
 @functools.lru_cache(maxsize=None)
 def _generic_saddle(s):
-    """F_s = [tau^(2s)] q(tau) (1 + B(tau))^(-(s+1/2)) in symbols b_1..b_2s (B = sum b_j tau^j), q_0..q_2s.
+    """The formula for F_s, derived once per s: a table of (weight, i, ((j, e), ...)) with
 
-    Returns (expression, symbols, mpmath function of the symbols); computed once per s.
+    ``F_s = sum weight * q_i * prod_j b_j^e``, ``b_j = P_{j+2}/P_2``, i.e. the coefficient of
+    ``tau^(2s)`` in ``q(tau) (1 + sum_j b_j tau^j)^(-(s+1/2))``, expanded over the partitions of
+    ``2s - i`` (multinomial theorem).  :func:`saddle_formula` shows it as a sympy expression.
     """
-    n = 2 * s
-    b = sp.symbols(f"b1:{n + 1}") if n else ()
-    q = sp.symbols(f"q0:{n + 1}")
-    m = -sp.Rational(2 * s + 1, 2)
-
-    def coeff(N):                       # [tau^N] (1 + B)^m, summed over the partitions of N
-        out = []
-        for part in partitions(N):
+    n, m, table = 2 * s, -sp.Rational(2 * s + 1, 2), []
+    for i in range(n + 1):
+        for part in (partitions(n - i) if n - i else [{}]):
             kk = sum(part.values())
             w = sp.binomial(m, kk) * sp.factorial(kk) / sp.Mul(*[sp.factorial(e) for e in part.values()])
-            out.append(sp.Mul(w, *[b[j - 1] ** e for j, e in part.items()]))
-        return out if N else [sp.Integer(1)]
+            table.append((w, i, tuple(sorted(part.items()))))
+    return tuple(table)
 
-    expr = sp.Add(*[q[i] * c for i in range(n + 1) for c in coeff(n - i)])
-    syms = tuple(b) + tuple(q)
-    return expr, syms, sp.lambdify(syms, expr, "mpmath")
+
+def saddle_formula(s):
+    """F_s as a sympy expression in b1, b2, ... (``b_j = P_{j+2}/P_2``) and q0, q1, ...
+
+    Examples
+    --------
+    >>> saddle_formula(1)
+    15*b1**2*q0/8 - 3*b1*q1/2 - 3*b2*q0/2 + q2
+    """
+    b = sp.symbols(f"b1:{2 * s + 2}")
+    q = sp.symbols(f"q0:{2 * s + 1}")
+    return sp.Add(*[w * q[i] * sp.Mul(*[b[j - 1] ** e for j, e in mono]) for w, i, mono in _generic_saddle(s)])
+
+
+def _eval_formula(s, beta, Qc, exact):
+    """Evaluate F_s from the table, with beta[j-1] = b_j; sympy (exact) or mpmath numbers."""
+    tot = []
+    for w, i, mono in _generic_saddle(s):
+        c = w if exact else mpmath.mpf(w.p) / w.q
+        for j, e in mono:
+            c = c * beta[j - 1] ** e
+        tot.append(c * Qc[i])
+    return sp.expand(sp.Add(*tot)) if exact else mpmath.fsum(tot)
 
 
 def _saddle_data(p, q, t, t0, nterms, exact, direction):
@@ -216,13 +233,12 @@ def _saddle_data(p, q, t, t0, nterms, exact, direction):
         r = -r if proj < 0 else r
     cs = []
     for s in range(nterms):
-        expr, syms, fun = _generic_saddle(s)
-        args = [P[j + 2] / P[2] for j in range(1, 2 * s + 1)] + list(Qc[:2 * s + 1])
+        beta = [P[j + 2] / P[2] for j in range(1, 2 * s + 1)]
+        F = _eval_formula(s, beta, Qc, exact)
         if exact:
-            F = expr.xreplace(dict(zip(syms, args)))
             c = sp.simplify(sp.gamma(sp.Rational(2 * s + 1, 2)) * r ** (2 * s + 1) * F)
         else:
-            c = mpmath.gamma(s + mpmath.mpf(1) / 2) * r ** (2 * s + 1) * fun(*args)
+            c = mpmath.gamma(s + mpmath.mpf(1) / 2) * r ** (2 * s + 1) * F
         cs.append(c)
     return cs, t0, P[0]
 

@@ -160,7 +160,7 @@ def scatter(model, omega, *, dps=None):
         for j in range(len(ins)):
             rhs[j, j] = 1
         try:
-            Xsol = mpmath.inverse(A) * rhs
+            Xsol = _solve_equilibrated(A, rhs)
         except ZeroDivisionError:
             raise ScatteringError(f"the in-mode amplitudes of the contour basis are degenerate at omega = {w}")
         S = mpmath.matrix(len(outs), len(ins))
@@ -179,6 +179,29 @@ def scatter(model, omega, *, dps=None):
     return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, dps,
                    extra={"S_mp": S, "x_exterior": Xe, "x_interior": Xi, "dps_used": dps,
                           "growing": [md.mode for md, _ in grow]})
+
+
+def _solve_equilibrated(A, rhs):
+    """Solve A X = rhs after scaling rows and columns to unit size (entries span many decades)."""
+    n = A.rows
+    rs = [max(abs(A[i, j]) for j in range(n)) or 1 for i in range(n)]
+    B = mpmath.matrix(n, n)
+    for i in range(n):
+        for j in range(n):
+            B[i, j] = A[i, j] / rs[i]
+    cs = [max(abs(B[i, j]) for i in range(n)) or 1 for j in range(n)]
+    for i in range(n):
+        for j in range(n):
+            B[i, j] /= cs[j]
+    R = mpmath.matrix(n, rhs.cols)
+    for i in range(n):
+        for j in range(rhs.cols):
+            R[i, j] = rhs[i, j] / rs[i]
+    Y = mpmath.inverse(B) * R
+    for i in range(n):
+        for j in range(rhs.cols):
+            Y[i, j] /= cs[i]
+    return Y
 
 
 def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, message=""):

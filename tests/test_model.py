@@ -94,12 +94,11 @@ def test_linearisation_keeps_weyl_symbol_real(model):
 
 
 def test_truncating_the_expanded_ode_breaks_self_adjointness():
-    """Negative control for the test above: truncate the *expanded* ODE coefficients of the
-    non-dispersive flow with v = -1 + 0.2 tanh(x) (v'' != 0 at the horizon... only in
-    the cubic order, so use v = -1 + 0.2 x + 0.3 x^2, v'' = 0.6) to first order in x. The
-    term 2 i omega v' y (from i omega (2 v y' + v' y) written out) then has x-part
-    2 i omega v''(0) x y = i omega * 1.2 x y while the symmetric form needs i omega v'' ... y:
-    the Weyl symbol gets an imaginary part; the symmetric linearisation does not."""
+    """Negative control for the test above (so that it can fail): v = -1 + 0.2 x + 0.3 x^2.
+    The operator contains i omega (2 v y' + v' y) = S_1[2 i omega v] (S_1[g] = g d + g'/2).
+    Linearising g_1 = 2 i omega v keeps the y-coefficient i omega v'(0) = 0.2 i omega; truncating
+    the expanded coefficient i omega v' = i omega (0.2 + 0.6 x) keeps an extra 0.6 i omega x y,
+    a non-real part of sigma1: the Weyl symbol is no longer real."""
     omega = sp.Rational(3, 10)
     v = -1 + sp.Rational(1, 5) * X + sp.Rational(3, 10) * X ** 2
     # full operator (the symmetric form of (omega - v k)^2 - k^2, Weyl-quantised)
