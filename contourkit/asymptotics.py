@@ -1,45 +1,37 @@
-"""Asymptotic expansions of contour integrals: saddle points and branch points.
+"""Asymptotic expansions of contour integrals at saddle points and branch points.
 
-Saddle point (Laplace's method).  Near a simple saddle t0 of p, with
-``p(t0 + tau) - p(t0) = sum_{j>=2} P_j tau^j`` and ``q(t0 + tau) = sum Q_j tau^j``,
-the substitution ``p - p(t0) = -w^2`` (series reversion, Lagrange-Buermann)
-turns the integral over the steepest-descent path into Gamma integrals:
+Saddle point (Laplace's method).  With ``p(t0 + tau) - p(t0) = sum_{j>=2} P_j tau^j`` and
+``q(t0 + tau) = sum Q_j tau^j`` at a simple saddle t0, the map ``p - p(t0) = -w^2`` (series
+reversion by Lagrange-Buermann) turns the integral over the steepest-descent path into Gamma
+integrals::
 
-    int exp(lam p(t)) q(t) dt ~ exp(lam p(t0)) sum_s c_s lam^(-s-1/2),
-    c_s = Gamma(s + 1/2) r^(2s+1) F_s,   r = (-P_2)^(-1/2),
-    F_s = [tau^(2s)] q(t0 + tau) (1 + sum_{j>=1} (P_{j+2}/P_2) tau^j)^(-(s+1/2)).
+    int exp(lam p) q dt ~ exp(lam p(t0)) sum_s c_s lam^(-s-1/2),   c_s = Gamma(s+1/2) r^(2s+1) F_s,
+    r = (-P_2)^(-1/2),   F_s = [tau^(2s)] q(t0 + tau) (1 + sum_{j>=1} (P_{j+2}/P_2) tau^j)^(-s-1/2).
 
-``F_s`` is derived once, symbolically, as a polynomial in the ratios
-``P_{j+2}/P_2`` and the ``Q_j`` (cached per s), then either substituted
-exactly or evaluated in mpmath.  The sign of r fixes the direction in which
-the path crosses the saddle: by default the principal root (Re r > 0, i.e.
-left to right), otherwise the one with ``Re(r conj(direction)) > 0``.
+The formula for F_s is derived once per s (a table of multinomial terms) and then evaluated
+exactly (sympy) or in mpmath.  The sign of r fixes the direction in which the path crosses the
+saddle: the principal root by default (Re r > 0: left to right).
 
-Branch point (Watson's lemma).  For ``h(t) = sum h_n t^n``,
-``int_0^oo exp(-x t) t^nu h(t) dt ~ sum_n h_n Gamma(nu + n + 1) x^(-nu-n-1)``.
-For the loop around k_b of ``exp(i k x) (k - k_b)^nu h(k)`` whose legs run along
-the ray ``k_b + (i/x) s``, s > 0 (starting on the leg where ``arg(k - k_b) =
-theta``, turning counter-clockwise):
+Branch point (Watson's lemma).  ``int_0^oo exp(-x t) t^nu h(t) dt ~ sum h_n Gamma(nu+n+1)
+x^(-nu-n-1)``.  For the loop round k_b of ``exp(i k x) (k - k_b)^nu h(k)`` whose legs run along
+``k_b + (i/x) s``, s > 0, starting where ``arg(k - k_b) = theta`` and turning counter-clockwise::
 
-    loop ~ exp(i k_b x) sum_n C_n |x|^(-nu-n-1),
-    C_n = (exp(2 pi i nu) - 1) exp(i (nu+n+1) theta) h_n Gamma(nu + n + 1);
+    loop ~ exp(i k_b x) sum_n C_n |x|^(-nu-n-1),  C_n = (e^(2 pi i nu) - 1) e^(i(nu+n+1) theta) h_n Gamma(nu+n+1);
 
-the half line from k_b along the ray has the same terms without the factor
-``exp(2 pi i nu) - 1``.
+the half line from k_b has the same terms without the factor ``e^(2 pi i nu) - 1``.
 
-Error estimate.  Every numeric result sums the terms s = 0..order and reports
-``error_estimate = sqrt(|t_{order+1}|^2 + |t_{order+2}|^2)``, the size of the
-first two omitted terms.  When the real and imaginary parts of the series
-each alternate with decreasing terms (Ai on the positive axis, DLMF 9.7(iii);
-H_nu^(1) on the positive axis, DLMF 10.17(iii)) each part of the remainder is
-bounded by its first omitted term, so this bounds the remainder and exceeds it
-by a factor of order one.
+Error estimate.  A numeric result sums the terms 0..order and reports ``error_estimate =
+hypot(|t_{order+1}|, |t_{order+2}|)`` (the first two omitted terms) plus the rounding
+``8 eps sum |t_s|``.  Where the real and imaginary parts of the series each alternate with
+decreasing terms (Ai on the positive axis, DLMF 9.7(iii); H_nu^(1) on the positive axis,
+DLMF 10.17(iii)) each part of the remainder is bounded by its first omitted term, so this
+bounds the remainder, and exceeds it by a factor of order one.
 
 References
 ----------
-.. [1] NIST DLMF 2.3 (Watson's lemma, 2.3.2), 2.4 (saddle points, 2.4.14-2.4.15).
-.. [2] N. Bleistein, R. A. Handelsman, Asymptotic Expansions of Integrals,
-   Dover (1986), ch. 4 (Watson's lemma), ch. 7 (the method of steepest descents).
+.. [1] NIST DLMF, sections 2.3 (Watson's lemma) and 2.4 (Laplace's method, saddle points).
+.. [2] N. Bleistein, R. A. Handelsman, Asymptotic Expansions of Integrals, Dover (1986),
+   ch. 4 (Watson's lemma) and ch. 7 (the method of steepest descents).
 """
 import cmath
 import functools
@@ -65,15 +57,15 @@ class AsymptoticSeries:
 
     Attributes
     ----------
-    terms : list            the terms s = 0..order (complex, or mpmath.mpc if dps was given)
+    terms : list            terms 0..order (complex; mpmath.mpc if dps was given)
     value : complex         their sum
-    error_estimate : float  ``sqrt(|t_{order+1}|^2 + |t_{order+2}|^2)`` (first two omitted terms)
-    order : int             index of the last included term
-    success : bool          the terms still decrease at the truncation point
+    error_estimate : float  hypot of the first two omitted terms, plus rounding (module doc)
+    order : int             index of the last term kept
+    success : bool          False if the terms grow at the truncation point (see message)
     message : str
-    coefficients : list     the (exact where possible) coefficients c_s or C_n, s = 0..order
+    coefficients : list     c_s (saddle) or C_n (branch point), exact where the input was
     kind : str              "saddle", "watson", "loop" or "half_line"
-    point : complex         the saddle or branch point used
+    point : complex         the (polished) saddle or the branch point
     """
     terms: list
     value: object
@@ -87,16 +79,20 @@ class AsymptoticSeries:
 
 
 # -- checks ---------------------------------------------------------------
+def _check_int(value, what, lo=0, none_ok=False):
+    if none_ok and value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, int) or value < lo:
+        raise InputError(f"{what} must be an int >= {lo}{' or None' if none_ok else ''}, got {value!r}")
+    return value
+
+
 def _check_order(order):
-    if isinstance(order, bool) or not isinstance(order, int) or order < 0:
-        raise InputError(f"order must be a non-negative int (the index of the last term kept), got {order!r}")
-    return order
+    return _check_int(order, "order (the index of the last term kept)")
 
 
 def _check_dps(dps):
-    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, int) or dps < 1):
-        raise InputError(f"dps must be None (double precision) or a positive int, got {dps!r}")
-    return dps
+    return _check_int(dps, "dps (mpmath digits; None for double precision)", 1, True)
 
 
 def _sym(value, what):
@@ -110,28 +106,17 @@ def _is_exact(*exprs):
     return all(not any(isinstance(a, sp.Float) for a in sp.preorder_traversal(e)) for e in exprs)
 
 
-def _taylor_exact(expr, t, t0, n, what):
-    """Exact Taylor coefficients expr^(j)(t0)/j!, j = 0..n."""
-    out, d = [], expr
-    for j in range(n + 1):
-        v = sp.simplify(d.subs(t, t0)) / sp.factorial(j)
-        if v.has(sp.zoo, sp.nan, sp.oo, -sp.oo):
-            raise InputError(f"{what} is not analytic at {t} = {t0} (its derivative of order {j} is {v})")
-        out.append(v)
-        d = sp.diff(d, t)
-    return out
-
-
-def _taylor_mp(expr, t, t0, n, what):
-    """Taylor coefficients in mpmath at the current precision."""
+def _taylor(expr, t, t0, n, what, exact):
+    """Taylor coefficients expr^(j)(t0)/j!, j = 0..n: exact sympy, or mpmath at the working precision."""
     out, d = [], expr
     for j in range(n + 1):
         try:
-            v = mpmath.mpmathify(sp.lambdify(t, d, "mpmath")(t0)) / mpmath.factorial(j)
+            v = sp.simplify(d.subs(t, t0)) / sp.factorial(j) if exact else \
+                mpmath.mpmathify(sp.lambdify(t, d, "mpmath")(t0)) / mpmath.factorial(j)
         except (ZeroDivisionError, ValueError) as exc:
             raise InputError(f"{what} is not analytic at {t} = {t0}: {exc}")
-        if not mpmath.isfinite(v):
-            raise InputError(f"{what} is not analytic at {t} = {t0} (derivative of order {j} is {v})")
+        if (v.has(sp.zoo, sp.nan, sp.oo, -sp.oo)) if exact else not mpmath.isfinite(v):
+            raise InputError(f"{what} is not analytic at {t} = {t0} (its derivative of order {j} is {v})")
         out.append(v)
         d = sp.diff(d, t)
     return out
@@ -142,16 +127,12 @@ def _finish(terms, extra, coefficients, kind, point, order, dps):
     mags = [abs(complex(z)) for z in terms + extra]
     err = math.hypot(mags[order + 1], mags[order + 2]) + 8 * float(mpmath.eps) * sum(mags[:order + 1])
     ok = all(math.isfinite(m) for m in mags) and (order == 0 or mags[order + 1] <= mags[order])
-    if ok:
-        msg = f"{order + 1} term(s); the first omitted term is {mags[order + 1]:.3g}"
-    else:
-        m = min(range(order + 2), key=lambda i: mags[i])
-        msg = (f"the terms grow at the truncation point (|t_{order}| = {mags[order]:.3g}, "
-               f"|t_{order + 1}| = {mags[order + 1]:.3g}): the series is past its smallest term; "
-               f"take order <= {max(m - 1, 0)} or a larger parameter")
-    value = mpmath.fsum(terms) if dps is not None else complex(sum(complex(z) for z in terms))
-    if dps is None:
-        terms = [complex(z) for z in terms]
+    msg = (f"{order + 1} term(s); the first omitted term is {mags[order + 1]:.3g}" if ok else
+           f"the terms grow at the truncation point (|t_{order}| = {mags[order]:.3g} < |t_{order + 1}| = "
+           f"{mags[order + 1]:.3g}): the series is past its smallest term; lower the order or enlarge "
+           f"the large parameter")
+    terms = terms if dps is not None else [complex(z) for z in terms]
+    value = mpmath.fsum(terms) if dps is not None else complex(sum(terms))
     return AsymptoticSeries(terms, value, err, order, ok, msg, coefficients, kind, point)
 
 
@@ -205,8 +186,6 @@ def _saddle_data(p, q, t, t0, nterms, exact, direction):
         d1 = sp.simplify(dp.subs(t, t0))
         if d1 != 0:
             raise InputError(f"{t} = {t0} is not a saddle point: p'({t0}) = {d1} != 0; pass a root of p'")
-        P = _taylor_exact(p, t, t0, n, "the exponent p")
-        Qc = _taylor_exact(q, t, t0, n - 2, "the amplitude q")
     else:
         t0 = mpmath.mpc(complex(t0)) if not isinstance(t0, mpmath.mpc) else t0
         f1, f2 = sp.lambdify(t, dp, "mpmath"), sp.lambdify(t, sp.diff(dp, t), "mpmath")
@@ -218,8 +197,7 @@ def _saddle_data(p, q, t, t0, nterms, exact, direction):
             t0 -= step
             if abs(step) <= mpmath.eps * 4 * (1 + abs(t0)):
                 break
-        P = _taylor_mp(p, t, t0, n, "the exponent p")
-        Qc = _taylor_mp(q, t, t0, n - 2, "the amplitude q")
+    P, Qc = _taylor(p, t, t0, n, "the exponent p", exact), _taylor(q, t, t0, n - 2, "the amplitude q", exact)
     if (P[2] == 0) if exact else (abs(P[2]) <= 1e3 * mpmath.eps * max(1, abs(P[0]))):
         raise InputError(f"{t} = {t0} is a degenerate saddle (p''(t0) = 0, coalescing saddles): the simple "
                          f"saddle-point series does not apply there (Bleistein-Handelsman ch. 9: uniform expansions)")
@@ -251,24 +229,21 @@ def saddle_coefficients(p, q, t, t0, order, *, direction=None):
 
     Parameters
     ----------
-    p, q : sympy expressions in t   exponent and amplitude, analytic at t0
-    t : sympy Symbol
-    t0 : sympy number or expression  the saddle (p'(t0) = 0, p''(t0) != 0)
-    order : int                      last index s returned
-    direction : complex, optional    direction in which the path crosses t0; default: the
-                                     principal root r = (-P_2)^(-1/2), i.e. Re(dt) > 0
+    p, q : sympy expressions in the Symbol t, analytic at t0 (exponent, amplitude)
+    t0 : the saddle, p'(t0) = 0 != p''(t0); order : int, the last s returned
+    direction : complex, optional   how the path crosses t0 (default: Re r > 0, module doc)
 
     Returns
     -------
-    list of sympy expressions c_0..c_order (exact if p, q, t0 contain no Floats).
+    list of sympy expressions c_0..c_order, exact when p, q, t0 contain no Floats.
 
     Raises
     ------
-    InputError   bad order, t0 not a saddle, degenerate saddle, q or p not analytic at t0.
+    InputError: bad order; t0 not a saddle or degenerate; p or q not analytic at t0.
 
     References
     ----------
-    NIST DLMF 2.4.14-2.4.15; Bleistein and Handelsman (1986), sec. 7.2.
+    DLMF 2.4; Bleistein and Handelsman (1986), ch. 7.
 
     Examples
     --------
@@ -295,13 +270,10 @@ def saddle_coefficients(p, q, t, t0, order, *, direction=None):
 def saddle_series(p, q, t, t0, order, *, lam=1, direction=None, dps=None, _p0=None):
     """Numeric saddle-point series of ``int exp(lam p(t)) q(t) dt`` with an error estimate.
 
-    Parameters as in :func:`saddle_coefficients`; ``lam > 0`` is the large parameter (use
-    ``lam = 1`` with the full exponent, e.g. ``p = i k x + E(k)``); ``dps`` the mpmath precision
-    (None: double, returns complex).  t0 may be rounded: it is polished by Newton's method.
-
-    Returns
-    -------
-    AsymptoticSeries with terms ``exp(lam p0) c_s lam^(-s-1/2)``, s = 0..order.
+    As :func:`saddle_coefficients`, with ``lam > 0`` the large parameter (``lam = 1`` with the
+    full exponent, e.g. ``p = i k x + E(k)``) and ``dps`` the mpmath precision (None: double).
+    A rounded t0 is polished by Newton's method.  Returns an :class:`AsymptoticSeries` with
+    terms ``exp(lam p(t0)) c_s lam^(-s-1/2)``.
 
     Examples
     --------
@@ -322,8 +294,7 @@ def saddle_series(p, q, t, t0, order, *, lam=1, direction=None, dps=None, _p0=No
     if not (lamv > 0 and math.isfinite(lamv)):
         raise InputError(f"lam must be a positive real number, got {lam!r}")
     with mpmath.workdps(dps or 15):
-        t0s = _sym(t0, "t0")
-        t0v = mpmath.mpc(sp.N(sp.re(t0s), mpmath.mp.dps + 5), sp.N(sp.im(t0s), mpmath.mp.dps + 5))
+        t0v = _mp(_sym(t0, "t0"))
         cs, t0v, p0 = _saddle_data(p, q, t, t0v, order + 3, False, direction)
         p0 = p0 if _p0 is None else _p0(t0v)
         L = mpmath.mpf(lam)
@@ -357,7 +328,7 @@ def watson_coefficients(h, t, nu, order):
 
     References
     ----------
-    NIST DLMF 2.3.2 (Watson's lemma); Bleistein and Handelsman (1986), sec. 4.1.
+    DLMF 2.3 (Watson's lemma); Bleistein and Handelsman (1986), ch. 4.
 
     Examples
     --------
@@ -368,7 +339,7 @@ def watson_coefficients(h, t, nu, order):
     """
     _check_order(order)
     h, nu = _sym(h, "h"), _check_nu(nu, "watson")
-    hn = _taylor_exact(h, t, sp.Integer(0), order, "h")
+    hn = _taylor(h, t, sp.Integer(0), order, "h", True)
     return [sp.simplify(c * sp.gamma(nu + n + 1)) for n, c in enumerate(hn)]
 
 
@@ -384,15 +355,10 @@ def watson_series(h, t, nu, x, order, *, dps=None):
     (True, True)
     """
     _check_order(order), _check_dps(dps)
-    xv = check_x(x)
-    if xv <= 0:
+    if check_x(x) <= 0:
         raise InputError(f"Watson's lemma needs x > 0 here, got {x!r}")
     cs = watson_coefficients(h, t, nu, order + 2)
-    with mpmath.workdps(dps or 15):
-        X = mpmath.mpf(sp.N(sp.Rational(repr(xv)) if dps else xv, (dps or 15) + 5))
-        nuv = mpmath.mpmathify(complex(sp.N(nu, (dps or 15) + 5)))
-        terms = [mpmath.mpmathify(sp.N(c, (dps or 15) + 5)) * X ** (-(nuv + n + 1)) for n, c in enumerate(cs)]
-        return _finish(terms[:order + 1], terms[order + 1:], cs[:order + 1], "watson", 0, order, dps)
+    return _bp_numeric(cs, sp.Integer(0), _sym(nu, "nu"), check_x(x), order, "watson", dps, 0)
 
 
 def _loop_from_taylor(hn, nu, theta, kind):
@@ -407,23 +373,13 @@ def branch_point_coefficients(h, k, kb, nu, order, *, side=1, theta=None, kind="
     for the loop whose legs run along ``k_b + (i/x) s``, s > 0, from infinity round k_b
     counter-clockwise and back (kind="loop"), or for the half line from k_b (kind="half_line").
 
-    Parameters
-    ----------
-    h : sympy expression in k, analytic at k_b
-    k : sympy Symbol
-    kb, nu : sympy numbers        the branch point and its exponent (non-integer for a loop)
-    order : int
-    side : {1, -1}                sign of x (the ray points to +i oo for x > 0, to -i oo for x < 0)
-    theta : sympy number, optional   arg(k - k_b) on the starting leg; default the principal
-                                     value ``side * pi/2``
-
-    Returns
-    -------
-    list of sympy expressions C_0..C_order.
+    h : sympy expression in the Symbol k, analytic at kb; nu: the exponent (not an integer for
+    a loop; Re nu > -1 for a half line); side: the sign of x; theta: ``arg(k - kb)`` on the
+    starting leg, by default the principal ``side * pi/2``.  Returns the list C_0..C_order.
 
     References
     ----------
-    NIST DLMF 2.3.2, 5.9.2 (Hankel's loop); Bleistein and Handelsman (1986), sec. 4.1.
+    DLMF 2.3 and 5.9 (Hankel's loop); Bleistein and Handelsman (1986), ch. 4.
 
     Examples
     --------
@@ -440,18 +396,20 @@ def branch_point_coefficients(h, k, kb, nu, order, *, side=1, theta=None, kind="
     if side not in (1, -1):
         raise InputError(f"side must be +1 or -1 (the sign of x), got {side!r}")
     theta = side * sp.pi / 2 if theta is None else _sym(theta, "theta")
-    return _loop_from_taylor(_taylor_exact(h, k, kb, order, "h"), nu, theta, kind)
+    return _loop_from_taylor(_taylor(h, k, kb, order, "h", True), nu, theta, kind)
+
+
+def _mp(v):
+    """An exact sympy number as mpmath mpc at the working precision."""
+    d = mpmath.mp.dps + 5
+    return mpmath.mpc(sp.N(sp.re(v), d), sp.N(sp.im(v), d))
 
 
 def _bp_numeric(C, kb, nu, x, order, kind, dps, point):
     with mpmath.workdps(dps or 15):
-        X = abs(mpmath.mpf(sp.N(sp.Rational(repr(x)), (dps or 15) + 5)))
-        nuv = mpmath.mpmathify(complex(sp.N(nu, (dps or 15) + 5))) if dps is None else \
-            mpmath.mpc(sp.N(sp.re(nu), dps + 5), sp.N(sp.im(nu), dps + 5))
-        kbv = mpmath.mpc(sp.N(sp.re(kb), (dps or 15) + 5), sp.N(sp.im(kb), (dps or 15) + 5))
-        pre = mpmath.exp(1j * kbv * mpmath.mpf(sp.N(sp.Rational(repr(x)), (dps or 15) + 5)))
-        terms = [pre * mpmath.mpc(sp.N(sp.re(c), (dps or 15) + 5), sp.N(sp.im(c), (dps or 15) + 5))
-                 * X ** (-(nuv + n + 1)) for n, c in enumerate(C)]
+        xm = _mp(sp.Rational(repr(x))).real
+        pre = mpmath.exp(1j * _mp(kb) * xm)
+        terms = [pre * _mp(c) * abs(xm) ** (-(_mp(nu) + n + 1)) for n, c in enumerate(C)]
         return _finish(terms[:order + 1], terms[order + 1:], C[:order + 1], kind, point, order, dps)
 
 
@@ -504,15 +462,9 @@ def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, 
     of :func:`saddle_series` with ``lam = 1``, each smaller than the last by a factor of order
     ``1/|Phi''|^(3/2) * |Phi'''|`` (a power of 1/x for large |x|).
 
-    Parameters
-    ----------
-    rep : KSpaceRepresentation
-    x : float
-    saddle : complex or int    a critical point of ``i k x + E(k)`` (an index into
-                               ``contourkit.saddles.critical_points(rep, x)``, or a point near one,
-                               e.g. from ``rep.saddles(x)``)
-    order : int
-    derivative, direction, dps : see above and :func:`saddle_coefficients`
+    ``saddle`` is an index into ``contourkit.saddles.critical_points(rep, x)`` (the critical
+    points of ``i k x + E(k)``) or a point near one, e.g. from ``rep.saddles(x)``; ``direction``
+    and ``dps`` as in :func:`saddle_series`.
 
     Examples
     --------
@@ -526,8 +478,7 @@ def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, 
     """
     _check_order(order)
     xv = check_x(x)
-    if isinstance(derivative, bool) or not isinstance(derivative, int) or derivative < 0:
-        raise InputError(f"derivative must be a non-negative int, got {derivative!r}")
+    _check_int(derivative, "derivative")
     crit = list(critical_points(rep, xv))
     if not crit:
         raise InputError(f"i k x + E(k) has no saddle point at x = {x}")
@@ -572,8 +523,8 @@ def _rep_h_taylor(rep, j, n, derivative):
         if i == j:
             continue
         d = sp.simplify(kb - si.point)
-        ang = float(sp.N(sp.arg(d), 30))
-        arg = sp.arg(d) + (2 * sp.pi if _reduce(ang, cut) - ang > 1 else 0) - (2 * sp.pi if ang - _reduce(ang, cut) > 1 else 0)
+        ang = float(sp.N(sp.arg(d), 30))                    # arg on the cut-plane sheet
+        arg = sp.arg(d) + 2 * sp.pi * round((_reduce(ang, cut) - ang) / (2 * math.pi))
         a[0] += si.exponent * (sp.log(sp.Abs(d)) + sp.I * arg)
         for m in range(1, n + 1):
             a[m] += si.exponent * sp.Integer(-1) ** (m + 1) / (m * d ** m)
@@ -610,8 +561,7 @@ def branch_point_contribution(rep, x, point, order, *, derivative=0, kind="loop"
     xv = check_x(x)
     if xv == 0:
         raise InputError("x = 0: the branch-point expansion is in powers of 1/|x|; take |x| large")
-    if isinstance(derivative, bool) or not isinstance(derivative, int) or derivative < 0:
-        raise InputError(f"derivative must be a non-negative int, got {derivative!r}")
+    _check_int(derivative, "derivative")
     try:
         pv = complex(point)
     except (TypeError, ValueError):

@@ -246,6 +246,17 @@ class HorizonModel:
         return val.real
 
     @property
+    def omega_max(self):
+        """Cut-off frequency of the dispersive branches in the asymptotic regions (None if none).
+
+        See :func:`contourkit.cutoff.omega_max`.
+        """
+        if not hasattr(self, "_omega_max"):
+            from .cutoff import omega_max
+            self._omega_max = omega_max(self)
+        return self._omega_max
+
+    @property
     def hawking_temperature(self):
         """T_H = kappa / (2 pi)."""
         return self.kappa / (2 * np.pi)

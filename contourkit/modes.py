@@ -175,8 +175,14 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             rc = complex(r)
             if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
                 xl = x if label_x is None else label_x
-                rl, xl = _track_root(dd, rc.real, x, xl) if xl != x else (rc.real, x)
-                m = _label(side, mpmath.mpf(complex(rl).real), float(xl), dd, "saddle")
+                m = _label(side, mpmath.mpf(rc.real), x, dd, "saddle")
+                if xl != x:
+                    # the linear model's flow speed changes sign far out, which flips norm and
+                    # direction together; the labels nearer the horizon are then the physical ones
+                    rl, xl = _track_root(dd, rc.real, x, xl)
+                    near = _label(side, mpmath.mpf(complex(rl).real), float(xl), dd, "saddle")
+                    if near.norm != m.norm:
+                        m = near
                 m.k = rc
                 out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1))
             else:
@@ -237,10 +243,10 @@ def _saddle_constant(rep, geom, i, dd, dps):
             f2, f3 = _phi_derivs(data, x, s)
             if abs(f3) ** 2 / abs(f2) ** 3 < target:
                 break
-            xn = x * 16
+            xn = x * 10000
             # continue the critical point: scale guess from the local balance, then Newton on Phi'
             q = rep.degree_Q
-            guess = s * (mpmath.mpf(16) ** (mpmath.mpf(1) / (q - 1)) if q >= 2 else 1)
+            guess = s * (mpmath.mpf(10000) ** (mpmath.mpf(1) / (q - 1)) if q >= 2 else 1)
             sn = _newton_crit(data, xn, guess, dps + 10)
             logs = phase.continue_logs_mp(data, s, logs, sn)
             s, x = sn, xn

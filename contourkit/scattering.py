@@ -77,19 +77,10 @@ def _asymptotic_x(rep, sign):
                           "branch points; the model may have coalescing saddles at all positions")
 
 
-def _side_data(rep, contours, dd, sign, dps, kappa):
+def _side_geometry(rep, contours, dd, sign, kappa):
+    """Double-precision geometry on one side: thimbles, crossings, stability at 2X."""
     X = _asymptotic_x(rep, sign)
     g0, coeffs = decompose(rep, contours, X)
-    lab = sign * min(abs(X), 0.1 / kappa) if kappa else None
-    modes = catalogue(rep, g0, dd, dps=dps, label_x=lab)
-    # intersection coefficient matrix N[mode, contour] at full precision
-    with mpmath.workdps(dps + 10):
-        nu = rep.mp_data(dps)[2]
-        N = mpmath.matrix(len(modes), len(contours))
-        for c, (C, cf) in enumerate(zip(contours, coeffs)):
-            for n, i, cl in cf:
-                N[i, c] = coefficient(rep, C.terms, cl, nu, lambda z: mpmath.expjpi(2 * z))
-    # stability: the same integer structure at 2X
     _, cf2s = decompose(rep, contours, 2 * X)
     for c, cf2 in enumerate(cf2s):
         a = sorted((i, round(abs(n), 6)) for n, i, _ in coeffs[c])
@@ -97,7 +88,21 @@ def _side_data(rep, contours, dd, sign, dps, kappa):
         if a != b:
             raise ScatteringError(f"the thimble decomposition changes between x = {X} and {2 * X}: the "
                                   f"asymptotic region is not reached (Stokes phenomenon); report this model")
-    return X, modes, N
+    lab = sign * min(abs(X), 0.1 / kappa) if kappa else None
+    return X, g0, coeffs, lab
+
+
+def _side_constants(rep, contours, dd, side, dps):
+    """Mode catalogue with flux constants and the coefficient matrix N at dps digits."""
+    X, g0, coeffs, lab = side
+    modes = catalogue(rep, g0, dd, dps=dps, label_x=lab)
+    with mpmath.workdps(dps + 10):
+        nu = rep.mp_data(dps)[2]
+        N = mpmath.matrix(len(modes), len(contours))
+        for c, (C, cf) in enumerate(zip(contours, coeffs)):
+            for n, i, cl in cf:
+                N[i, c] = coefficient(rep, C.terms, cl, nu, lambda z: mpmath.expjpi(2 * z))
+    return modes, N
 
 
 def scatter(model, omega, *, dps=None):
@@ -108,9 +113,13 @@ def scatter(model, omega, *, dps=None):
     model : HorizonModel (catalogue models, model files)
     omega : float > 0
     dps : int, optional
-        Decimal digits for the constants and the linear algebra (default 30;
-        the geometry is always double precision).  With dps given the
-        result's thermal_ratio, occupation, alpha and beta are mpmath numbers.
+        Number of correct significant digits wanted for the S-matrix entries
+        (default 16).  The working precision is raised automatically above
+        it (the entries of the mode-amplitude matrix span many decades when
+        |beta|^2 is exponentially small) until two working precisions agree
+        to ``10**-dps``; ``result.dps`` reports the precision used.  The
+        geometry is always double precision (it is made of integers).  With
+        dps given, thermal_ratio, occupation, alpha and beta are mpmath numbers.
 
     Returns
     -------
@@ -129,20 +138,55 @@ def scatter(model, omega, *, dps=None):
     user_dps = dps
     if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1):
         raise InputError(f"dps must be a positive integer, got {dps!r}")
-    dps = int(dps) if dps is not None else 30
+    target = int(dps) if dps is not None else 16
     eq = model.mode_equation(w)
     rep = eq.fourier()
     kappa = float(model.kappa)
     if rep.degree_Q < 2:
-        return _nondispersive(model, rep, w, kappa, dps, user_dps)
+        return _nondispersive(model, rep, w, kappa, max(target, 20), user_dps)
     contours = rep.basis()
     dd = DispersionDerivatives(model, w, eq)
-    Xe, mod_e, Ne = _side_data(rep, contours, dd, +1, dps, kappa)
-    Xi, mod_i, Ni = _side_data(rep, contours, dd, -1, dps, kappa)
-    rows = [(md, Ne, +1) for md in mod_e] + [(md, Ni, -1) for md in mod_i]
-    ins = [(md, N) for md, N, _ in rows if md.mode.kind == "propagating" and md.mode.direction == "in"]
-    outs = [(md, N) for md, N, _ in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
-    grow = [(md, N) for md, N, _ in rows if md.mode.kind == "growing"]
+    sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
+    work = target + 10
+    prev = None
+    for _ in range(8):
+        cur = _assemble(model, rep, contours, dd, sides, w, work)
+        if prev is not None and _settled(prev, cur, target, work):
+            break
+        prev = cur
+        work += max(10, int(cur[6]))
+    else:
+        raise ScatteringError(f"the S-matrix at omega = {w} did not settle to {target} digits up to working "
+                              f"precision {work}")
+    in_modes, out_modes, grow, S, resid, fig, lost = cur
+    S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
+    return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, work,
+                   extra={"S_mp": S, "x_exterior": sides[0][0], "x_interior": sides[1][0],
+                          "digits_lost": lost, "growing": grow, "target_digits": target})
+
+
+def _settled(prev, cur, target, work):
+    """Two working precisions agree: Hawking-row figures relatively, S absolutely (floor 10^-target)."""
+    with mpmath.workdps(work + 10):
+        tol = mpmath.mpf(10) ** (-target)
+        for key in ("occupation", "thermal_ratio"):
+            a, b = prev[5][key], cur[5][key]
+            if b != 0 and abs(a - b) > tol * abs(b):
+                return False
+        Sa, Sb = prev[3], cur[3]
+        scale = max(abs(Sb[i, j]) for i in range(Sb.rows) for j in range(Sb.cols))
+        return all(abs(Sa[i, j] - Sb[i, j]) <= tol * max(abs(Sb[i, j]), scale)
+                   for i in range(Sb.rows) for j in range(Sb.cols))
+
+
+def _assemble(model, rep, contours, dd, sides, w, dps):
+    """Modes, S-matrix and figures at working precision dps."""
+    mod_e, Ne = _side_constants(rep, contours, dd, sides[0], dps)
+    mod_i, Ni = _side_constants(rep, contours, dd, sides[1], dps)
+    rows = [(md, Ne) for md in mod_e] + [(md, Ni) for md in mod_i]
+    ins = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "in"]
+    outs = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
+    grow = [(md, N) for md, N in rows if md.mode.kind == "growing"]
     n_c = len(contours)
     if len(ins) + len(grow) != n_c:
         raise ScatteringError(f"mode counting does not close: {len(ins)} in-modes and {len(grow)} growing modes "
@@ -156,6 +200,8 @@ def scatter(model, omega, *, dps=None):
         for r, (md, N) in enumerate(grow):
             for c in range(n_c):
                 A[len(ins) + r, c] = N[md.index, c]
+        nz = [abs(A[i, j]) for i in range(n_c) for j in range(n_c) if A[i, j] != 0]
+        lost = float(mpmath.log10(max(nz) / min(nz))) if nz else 0.0
         rhs = mpmath.matrix(n_c, len(ins))
         for j in range(len(ins)):
             rhs[j, j] = 1
@@ -175,10 +221,7 @@ def scatter(model, omega, *, dps=None):
         out_modes = [md.mode for md, _ in outs]
         Sobj = np.array([[S[i, j] for j in range(S.cols)] for i in range(S.rows)], dtype=object)
         fig = hawking_figures(Sobj, in_modes, out_modes, mpmath.mpf(w), mpmath.mpf(model.kappa))
-    S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
-    return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, dps,
-                   extra={"S_mp": S, "x_exterior": Xe, "x_interior": Xi, "dps_used": dps,
-                          "growing": [md.mode for md, _ in grow]})
+    return in_modes, out_modes, [md.mode for md, _ in grow], S, resid, fig, lost
 
 
 def _solve_equilibrated(A, rhs):
@@ -207,7 +250,7 @@ def _solve_equilibrated(A, rhs):
 def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, message=""):
     def conv(v):
         return v if user_dps is not None else (float(v) if not isinstance(v, (complex, mpmath.mpc)) else complex(v))
-    ok = resid < 10.0 ** (-min(dps, 15) + 4)
+    ok = resid < 1e-11
     msg = message or ("converged" if ok else f"unitarity residual {resid:.3g} is larger than expected")
     if not ok:
         warnings.warn(f"S-matrix at omega = {w}: {msg}", AccuracyWarning, stacklevel=3)
@@ -218,7 +261,7 @@ def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, 
         thermal_ratio=conv(fig["thermal_ratio"]), occupation=conv(fig["occupation"]),
         effective_temperature=conv(fig["effective_temperature"]),
         hawking_temperature=kappa / (2 * math.pi), kappa=kappa, dps=dps,
-        error_estimate=max(resid, 10.0 ** (-dps)), success=ok, message=msg, method="contour", extra=extra)
+        error_estimate=max(resid, 10.0 ** (-extra.get("target_digits", 16))), success=ok, message=msg, method="contour", extra=extra)
 
 
 def _nondispersive(model, rep, w, kappa, dps, user_dps):
