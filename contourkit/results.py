@@ -118,11 +118,12 @@ class ScatteringResult:
 
     def as_row(self):
         """A flat dict for tables (CSV/JSON)."""
+        T_ratio = self.effective_temperature / self.hawking_temperature if self.hawking_temperature else 0.0
         return {"omega": float(self.omega), "occupation": float(self.occupation),
                 "thermal_ratio": float(self.thermal_ratio),
                 "effective_temperature": float(self.effective_temperature),
                 "hawking_temperature": float(self.hawking_temperature),
-                "temperature_ratio": float(self.effective_temperature / self.hawking_temperature),
+                "temperature_ratio": float(T_ratio),
                 "unitarity_residual": float(self.unitarity_residual),
                 "n_in": len(self.in_modes), "dps": self.dps if self.dps is not None else 16,
                 "error_estimate": float(self.error_estimate), "success": bool(self.success),
