@@ -2,30 +2,21 @@
 
 Saddle point (Laplace's method).  With ``p(t0 + tau) - p(t0) = sum_{j>=2} P_j tau^j`` and
 ``q(t0 + tau) = sum Q_j tau^j`` at a simple saddle t0, the map ``p - p(t0) = -w^2`` (series
-reversion by Lagrange-Buermann) turns the integral along the steepest-descent path into
-Gamma integrals::
-
-    int exp(lam p) q dt ~ exp(lam p(t0)) sum_s c_s lam^(-s-1/2),   c_s = Gamma(s+1/2) r^(2s+1) F_s,
-    r = (-P_2)^(-1/2),   F_s = [tau^(2s)] q(t0 + tau) (1 + sum_{j>=1} (P_{j+2}/P_2) tau^j)^(-s-1/2).
-
-The formula for F_s is derived once per s (a table of multinomial terms) and then evaluated
-exactly (sympy) or in mpmath.  The sign of r fixes the direction in which the path crosses
-the saddle: the principal root by default (Re r > 0, left to right).
+reversion, Lagrange-Buermann) gives ``int exp(lam p) q dt ~ exp(lam p(t0)) sum_s c_s
+lam^(-s-1/2)`` with ``c_s = Gamma(s+1/2) r^(2s+1) F_s``, ``r = (-P_2)^(-1/2)`` (principal root
+unless a direction is given) and ``F_s = [tau^(2s)] q(t0+tau) (1 + sum_j (P_{j+2}/P_2)
+tau^j)^(-s-1/2)``, a formula derived once per s and then evaluated exactly or in mpmath.
 
 Branch point (Watson's lemma).  ``int_0^oo exp(-x t) t^nu h(t) dt ~ sum h_n Gamma(nu+n+1)
-x^(-nu-n-1)``.  For the loop round k_b of ``exp(i k x) (k - k_b)^nu h(k)`` whose legs run along
-``k_b + (i/x) s``, s > 0, starting where ``arg(k - k_b) = theta`` and turning counter-clockwise::
+x^(-nu-n-1)``; the loop round k_b of ``exp(i k x) (k - k_b)^nu h(k)`` along ``k_b + (i/x) s``,
+starting where ``arg(k - k_b) = theta``, counter-clockwise, is ``~ exp(i k_b x) sum C_n
+|x|^(-nu-n-1)``, ``C_n = (e^(2 pi i nu) - 1) e^(i(nu+n+1) theta) h_n Gamma(nu+n+1)`` (the half
+line: without ``e^(2 pi i nu) - 1``).
 
-    loop ~ exp(i k_b x) sum_n C_n |x|^(-nu-n-1),  C_n = (e^(2 pi i nu) - 1) e^(i(nu+n+1) theta) h_n Gamma(nu+n+1);
-
-the half line from k_b has the same terms without the factor ``e^(2 pi i nu) - 1``.
-
-Error estimate.  A numeric result sums the terms 0..order and reports ``error_estimate =
-hypot(|t_{order+1}|, |t_{order+2}|)`` (the first two omitted terms) plus the rounding
-``8 eps sum |t_s|``.  Where the real and imaginary parts of the series each alternate with
-decreasing terms (Ai on the positive axis, DLMF 9.7(iii); H_nu^(1) on the positive axis,
-DLMF 10.17(iii)) each part of the remainder is bounded by its first omitted term, so this
-bounds the remainder and exceeds it by a factor of order one.
+Error estimate: ``hypot(|t_{order+1}|, |t_{order+2}|) + 8 eps sum |t_s|``.  Where the real and
+imaginary parts of the series each alternate (Ai, DLMF 9.7(iii); H_nu^(1), DLMF 10.17(iii),
+positive argument) it bounds the remainder and exceeds it by a factor of order one.
+See docs/asymptotics.md.
 
 References
 ----------
@@ -42,6 +33,7 @@ import mpmath
 import sympy as sp
 from sympy.utilities.iterables import partitions
 
+from . import phase
 from .errors import InputError
 from .fourier import K
 from .saddles import check_x, critical_points
@@ -85,14 +77,6 @@ def _check_int(value, what, lo=0, none_ok=False):
     if isinstance(value, bool) or not isinstance(value, int) or value < lo:
         raise InputError(f"{what} must be an int >= {lo}{' or None' if none_ok else ''}, got {value!r}")
     return value
-
-
-def _order(order):
-    return _check_int(order, "order (the index of the last term kept)")
-
-
-def _dps(dps):
-    return _check_int(dps, "dps (mpmath digits; None for double precision)", 1, True)
 
 
 def _sym(value, what):
@@ -180,7 +164,7 @@ def _saddle_data(p, q, t, t0, nterms, exact, direction):
     n, dp = 2 * nterms, sp.diff(p, t)
     if exact:
         d1 = sp.simplify(dp.subs(t, t0))
-        if d1 != 0:
+        if d1 != 0 and not (d1.is_number and abs(complex(sp.N(d1, 60))) < 1e-50):
             raise InputError(f"{t} = {t0} is not a saddle point: p'({t0}) = {d1} != 0; pass a root of p'")
     else:                                               # polish a rounded saddle by Newton's method
         f1, f2 = sp.lambdify(t, dp, "mpmath"), sp.lambdify(t, sp.diff(dp, t), "mpmath")
@@ -235,7 +219,7 @@ def saddle_coefficients(p, q, t, t0, order, *, direction=None):
     >>> saddle_coefficients(sp.I*(k**3/3 + k), 1, k, sp.I, 1)
     [sqrt(pi), -5*sqrt(pi)/48]
     """
-    _order(order)
+    _check_int(order, "order")
     p, q, t0 = _sym(p, "p"), _sym(q, "q"), _sym(t0, "t0")
     if not isinstance(t, sp.Symbol):
         raise InputError(f"t must be a sympy Symbol, got {t!r}")
@@ -264,13 +248,9 @@ def saddle_series(p, q, t, t0, order, *, lam=1, direction=None, dps=None, _p0=No
     >>> abs(ai - airy(10.0)[0]) <= res.error_estimate / (2*3.141592653589793)
     True
     """
-    _order(order), _dps(dps)
+    _check_int(order, "order"), _check_int(dps, "dps", 1, True)
     p, q = _sym(p, "p"), _sym(q, "q")
-    try:
-        lamv = float(lam)
-    except (TypeError, ValueError):
-        lamv = math.nan
-    if not (lamv > 0 and math.isfinite(lamv)):
+    if isinstance(lam, (bool, complex)) or not isinstance(lam, (int, float, sp.Rational)) or not 0 < lam < math.inf:
         raise InputError(f"lam must be a positive real number, got {lam!r}")
     with mpmath.workdps(dps or 15):
         cs, t0v, p0 = _saddle_data(p, q, t, _mp(_sym(t0, "t0")), order + 3, False, direction)
@@ -312,7 +292,7 @@ def watson_coefficients(h, t, nu, order):
     >>> watson_coefficients(1/(1 + t), t, 0, 3)     # int exp(-xt)/(1+t) dt ~ sum (-1)^n n!/x^(n+1)
     [1, -1, 2, -6]
     """
-    _order(order)
+    _check_int(order, "order")
     h, nu = _sym(h, "h"), _check_nu(nu, "watson")
     return [sp.simplify(c * sp.gamma(nu + n + 1)) for n, c in enumerate(_taylor(h, t, 0, order, "h", True))]
 
@@ -336,7 +316,7 @@ def watson_series(h, t, nu, x, order, *, dps=None):
     >>> bool(abs(res.value - (1/20 - 1/400 + 2/8000 - 6/160000)) < 1e-15), res.success
     (True, True)
     """
-    _order(order), _dps(dps)
+    _check_int(order, "order"), _check_int(dps, "dps", 1, True)
     if check_x(x) <= 0:
         raise InputError(f"Watson's lemma needs x > 0 here, got {x!r}")
     cs = watson_coefficients(h, t, nu, order + 2)
@@ -371,7 +351,7 @@ def branch_point_coefficients(h, k, kb, nu, order, *, side=1, theta=None, kind="
     >>> [sp.nsimplify(sp.expand(c / C[0])) for c in C]
     [1, -I/8]
     """
-    _order(order)
+    _check_int(order, "order")
     h, kb, nu = _sym(h, "h"), _sym(kb, "kb"), _check_nu(nu, kind)
     if side not in (1, -1):
         raise InputError(f"side must be +1 or -1 (the sign of x), got {side!r}")
@@ -394,7 +374,7 @@ def branch_point_series(h, k, kb, nu, x, order, *, theta=None, kind="loop", dps=
     >>> bool(abs(2/(1j*3.141592653589793) * res.value - hankel1(0, 50.0)) <= res.error_estimate)
     True
     """
-    _order(order), _dps(dps)
+    _check_int(order, "order"), _check_int(dps, "dps", 1, True)
     xv = check_x(x)
     if xv == 0:
         raise InputError("x = 0: the branch-point expansion is in powers of 1/|x|; take |x| large")
@@ -409,9 +389,9 @@ def _reduce(angle, lo):
     return lo + (a if a > 1e-12 else 2 * math.pi)
 
 
-def _cut_log_mp(rep, z):
-    a = float(mpmath.arg(z))
-    return mpmath.log(abs(z)) + 1j * (mpmath.arg(z) + 2 * mpmath.pi * round((_reduce(a, rep.cut_angle) - a) / (2 * math.pi)))
+def _turns(arg, rep):
+    """Whole turns to add to a principal arg to reach the cut-plane sheet."""
+    return round((_reduce(float(arg), rep.cut_angle) - float(arg)) / (2 * math.pi))
 
 
 def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, dps=None):
@@ -433,7 +413,7 @@ def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, 
     >>> abs(res.value / (2*3.141592653589793) - airy(10.0)[0]) < res.error_estimate
     True
     """
-    _order(order), _dps(dps), _check_int(derivative, "derivative")
+    _check_int(order, "order"), _check_int(dps, "dps", 1, True), _check_int(derivative, "derivative")
     xv = check_x(x)
     crit = list(critical_points(rep, xv))
     if not crit:
@@ -443,10 +423,7 @@ def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, 
             raise InputError(f"saddle index {saddle} out of range: there are {len(crit)} saddles at x = {x}")
         k0 = crit[saddle]
     else:
-        try:
-            s = complex(saddle)
-        except (TypeError, ValueError):
-            raise InputError(f"saddle must be a complex number or an index, got {saddle!r}")
+        s = _mp(_sym(saddle, "saddle"))
         k0 = min(crit, key=lambda c: abs(c - s))
         others = [abs(k0 - c) for c in crit if c is not k0] + [abs(k0 - kj) for kj in rep._kj]
         if abs(k0 - s) > max(1e-8 * (1 + abs(k0)), 0.1 * min(others + [1.0])):
@@ -457,11 +434,9 @@ def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, 
     xs = sp.Rational(repr(xv))
 
     def p0(kk):                                          # Phi(k0) on the cut-plane branch
-        Q, kj, nu, ess = rep.mp_data(mpmath.mp.dps)
-        v = 1j * _mp(xs).real * kk + (mpmath.polyval(Q, kk) if Q else 0)
-        for j in range(len(kj)):
-            v += nu[j] * _cut_log_mp(rep, kk - kj[j]) + sum(c * (kk - kj[j]) ** (-m) for m, c in enumerate(ess[j], 1))
-        return v
+        data = rep.mp_data(mpmath.mp.dps)
+        logs = [mpmath.log(kk - kj) + 2j * mpmath.pi * _turns(mpmath.arg(kk - kj), rep) for kj in data[1]]
+        return phase.phi_mp(data, _mp(xs).real, kk, logs)
 
     return saddle_series(sp.I * K * xs + rep.exponent, (sp.I * K) ** derivative, K, complex(k0), order,
                          direction=direction, dps=dps, _p0=p0)
@@ -469,16 +444,14 @@ def saddle_contribution(rep, x, saddle, order, *, derivative=0, direction=None, 
 
 def _rep_h_taylor(rep, j, n, derivative):
     """Exact Taylor coefficients at k_j of h = (i k)^d exp(E - nu_j log(k - k_j)), cut-plane branch."""
-    kb, tau, cut = rep.singularities[j].point, sp.Symbol("tau"), rep.cut_angle
+    kb, tau = rep.singularities[j].point, sp.Symbol("tau")
     Qs = sp.Poly(sp.expand(rep.polynomial_part.as_expr().subs(K, kb + tau)), tau)
     a = [Qs.coeff_monomial(tau ** m) for m in range(n + 1)]       # series of log h
     for i, si in enumerate(rep.singularities):
         if i == j:
             continue
         d = sp.simplify(kb - si.point)
-        ang = float(sp.N(sp.arg(d), 30))
-        a[0] += si.exponent * (sp.log(sp.Abs(d)) + sp.I * (sp.arg(d) + 2 * sp.pi * round((_reduce(ang, cut) - ang)
-                                                                                         / (2 * math.pi))))
+        a[0] += si.exponent * (sp.log(sp.Abs(d)) + sp.I * (sp.arg(d) + 2 * sp.pi * _turns(sp.N(sp.arg(d), 30), rep)))
         a[0] += sum(c * d ** (-pp) for pp, c in enumerate(si.essential, 1))
         for m in range(1, n + 1):
             a[m] += si.exponent * sp.Integer(-1) ** (m + 1) / (m * d ** m)
@@ -494,12 +467,9 @@ def _rep_h_taylor(rep, j, n, derivative):
 def branch_point_contribution(rep, x, point, order, *, derivative=0, kind="loop", dps=None):
     """Watson expansion in powers of 1/|x| of the loop (or half line) at a branch point of rep.
 
-    ``int (i k)^n exp(i k x) f(k) dk ~ exp(i kb x) sum C_n |x|^(-nu-n-1)``, f = exp(E), nu the
-    exponent at kb, the legs along ``kb + (i/x) s``.  The starting leg is on the sheet that
-    contours.py documents for ``Contour.loop(point)`` (cut-plane branch; on a leg along a cut
-    ``arg = cut_angle + 2 pi``), so for deg Q <= 1 the result is the expansion of
-    ``rep.evaluate(Contour.loop(point), x)`` (or ``Contour.half_line``).  ``coefficients`` are
-    the exact C_n.
+    ``int (i k)^n exp(i k x) f(k) dk ~ exp(i kb x) sum C_n |x|^(-nu-n-1)`` (exact C_n in
+    ``coefficients``), legs along ``kb + (i/x) s``, starting on the sheet contours.py documents
+    for ``Contour.loop(point)``: for deg Q <= 1 this expands ``rep.evaluate(Contour.loop(point), x)``.
 
     Examples
     --------
@@ -511,7 +481,7 @@ def branch_point_contribution(rep, x, point, order, *, derivative=0, kind="loop"
     >>> bool(abs(2/(1j*3.141592653589793) * res.value - hankel1(0, 10.0)) < res.error_estimate)
     True
     """
-    _order(order), _dps(dps), _check_int(derivative, "derivative")
+    _check_int(order, "order"), _check_int(dps, "dps", 1, True), _check_int(derivative, "derivative")
     xv = check_x(x)
     if xv == 0:
         raise InputError("x = 0: the branch-point expansion is in powers of 1/|x|; take |x| large")

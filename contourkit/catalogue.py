@@ -123,3 +123,90 @@ def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None):
     m.Lambda = Lambda
     m.flow_D = None if D is None else exact(D)
     return m
+
+
+def dielectric_front(u=0.6, resonances=((1.2, 1.0), (5.2, 3.0)), *, modulated=0, shift=0.05, width=20.0,
+                     linear=False):
+    """Light at a moving refractive-index front in a dielectric with oscillator resonances.
+
+    The polarisation is a set of lossless oscillators, so the permittivity in
+    the rest frame of the medium is
+    ``eps(w) = 1 + sum_j s_j / (w_j^2 - w^2)`` (strength s_j, resonance w_j).
+    The front moves through the medium; in the front's rest frame (c = 1) the
+    medium moves towards -x with speed u, and the medium-frame frequency and
+    wavenumber are ``w_L = g (omega + u k)``, ``k_L = g (k + u omega)`` with
+    ``g = 1/sqrt(1 - u^2)``.  The front shifts one resonance frequency,
+    ``w_m(x) = w_m (1 + shift tanh(x/width))``, which changes the
+    low-frequency index ``n0^2 = 1 + sum_j s_j/w_j^2``; the horizon is where
+    ``u n0(x) = 1``.  The dispersion function (polynomial after multiplying by
+    the resonance denominators, normalised to positive-norm dD/domega > 0 on
+    the low-frequency branch) is
+
+        D = -[(k_L^2 - w_L^2) prod_j (w_j^2 - w_L^2) - w_L^2 sum_j s_j prod_{i != j} (w_i^2 - w_L^2)].
+
+    Parameters
+    ----------
+    u : float in (0, 1)       front speed relative to the medium (units of c)
+    resonances : sequence of (s_j, w_j) with s_j > 0, w_j > 0
+    modulated : int           index of the resonance that the front shifts
+    shift : float             relative shift of that resonance across the front
+    width : float             width of the front (so kappa ~ shift/width)
+    linear : bool             use the linearised profile (exact near-horizon model)
+
+    Notes
+    -----
+    Our own scenario; the default values are not those of any experiment.
+    The Hawking temperature refers to the low-frequency branch; the
+    near-horizon model is thermal where kappa is small against the
+    resonance frequencies.  Experiments with intense laser pulses that make
+    such fronts are hazardous: follow your laboratory's laser-safety rules,
+    the advice of its laser safety officer and local regulations (see
+    docs/safety.md).
+
+    Examples
+    --------
+    >>> m = dielectric_front()
+    >>> m.kappa > 0
+    True
+    """
+    u = _positive("u", u)
+    if u >= 1:
+        raise InputError(f"the front speed u = {u} must be below the speed of light (u < 1)")
+    res = []
+    try:
+        for s_j, w_j in resonances:
+            res.append((_positive("oscillator strength", s_j), _positive("resonance frequency", w_j)))
+    except (TypeError, ValueError):
+        raise InputError("resonances must be a sequence of (strength, frequency) pairs of positive numbers")
+    if not res:
+        raise InputError("give at least one resonance")
+    if isinstance(modulated, bool) or not isinstance(modulated, int) or not 0 <= modulated < len(res):
+        raise InputError(f"modulated must be the index of a resonance (0..{len(res) - 1}), got {modulated!r}")
+    shift = _positive("shift", shift)
+    width = _positive("width", width)
+    g = 1 / sp.sqrt(1 - u ** 2)
+    wL = g * (_w + u * _k)
+    kL = g * (_k + u * _w)
+    prof = (shift * _x / width) if linear else shift * sp.tanh(_x / width)
+    ws = [w_j * (1 + prof) if j == modulated else w_j for j, (s_j, w_j) in enumerate(res)]
+    prod_all = sp.Integer(1)
+    for wj in ws:
+        prod_all *= (wj ** 2 - wL ** 2)
+    pol = sp.Integer(0)
+    for j, (s_j, _) in enumerate(res):
+        term = s_j
+        for i, wi in enumerate(ws):
+            if i != j:
+                term *= (wi ** 2 - wL ** 2)
+        pol += term
+    D = -((kL ** 2 - wL ** 2) * prod_all - wL ** 2 * pol)
+    D = sp.expand(D)
+    n0sq = 1 + sum(s_j / w_j ** 2 for s_j, w_j in res)
+    m = HorizonModel.from_dispersion(D, omega=_w, k=_k, x=_x, window=(-5 * width, 5 * width),
+                                     name="dielectric front",
+                                     description=f"oscillator dielectric, front speed u = {u}, "
+                                                 f"{len(res)} resonances, resonance {modulated} shifted")
+    m.front_speed = u
+    m.resonances = res
+    m.low_frequency_index = float(sp.sqrt(n0sq))
+    return m

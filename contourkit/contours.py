@@ -39,7 +39,7 @@ _TOL = 1e-12
 def _reduce(angle, lo):
     """Angle reduced into (lo, lo + 2 pi]."""
     a = (angle - lo) % (2 * math.pi)
-    if a <= 1e-12:
+    if a <= 1e-6:      # on the cut (within the geometry's perturbation): the top of the interval
         a += 2 * math.pi
     return lo + a
 

@@ -195,8 +195,17 @@ def _branch_constant(rep, geom, i, b, dd, dps):
     t = geom.thimbles[i]
     x = geom.x
     theta = math.pi / 2 if x > 0 else -math.pi / 2
-    a_in = t.minus.logs[-1][b].imag
-    a_out = t.plus.logs[-1][b].imag
+    kb0 = rep._kj[b]
+    r0 = abs(t.sigma - kb0)
+
+    def local_arg(arm):
+        # arg(k - k_b) where the arm has left the saddle's neighbourhood but is still local
+        d = np.abs(arm.k - kb0)
+        idx = np.nonzero(d > 20 * r0)[0]
+        i = int(idx[0]) if idx.size else len(arm.k) - 1
+        return arm.logs[i][b].imag
+    a_in = local_arg(t.minus)
+    a_out = local_arg(t.plus)
     m_in = round((a_in - theta) / (2 * math.pi))
     m_out = round((a_out - theta) / (2 * math.pi))
     delta = 2 * math.pi * (m_out - m_in)

@@ -267,9 +267,9 @@ def evaluate(rep, contour, x, *, derivative=0, dps=None, rtol=None, full_output=
     True
     """
     scalar = np.ndim(x) == 0
-    xs = [x] if scalar else list(np.asarray(x, dtype=float).ravel())
-    if not scalar and dps is None and np.iscomplexobj(np.asarray(x)):
+    if not scalar and np.iscomplexobj(np.asarray(x)):
         raise InputError("x must be real")
+    xs = [x] if scalar else list(np.asarray(x, dtype=float).ravel())
     res = [integrate(rep, contour, xv, derivative=derivative, dps=dps, rtol=rtol) for xv in xs]
     if full_output:
         return res[0] if scalar else res

@@ -61,16 +61,34 @@ def _check_omega(omega):
 
 
 def _asymptotic_x(rep, sign):
-    """A position on the given side where every critical point sits in its asymptotic place."""
+    """A position on the given side where every critical point sits in its asymptotic place.
+
+    Each singular point k_j must have exactly one critical point within 2% of
+    its distance to the nearest other singular point, and every other
+    critical point must be three such distances away; X is doubled from a
+    small start until that holds (X stays moderate, so the double-precision
+    geometry keeps its accuracy).
+    """
     from .saddles import critical_points
     kj = rep._kj
-    sep = float(np.min([abs(a - b) for i, a in enumerate(kj) for b in kj[i + 1:]] or [1.0]))
-    X = 10.0 / max(sep, 1e-300)
-    for _ in range(60):
+    near = []
+    for i, a in enumerate(kj):
+        d = [abs(a - b) for j, b in enumerate(kj) if j != i]
+        near.append(min(d) if d else max(1.0, abs(a)))
+    X = 1.0 / max(min(near) if near else 1.0, 1e-300)
+    for _ in range(80):
         crit = critical_points(rep, sign * X)
-        near = [float(np.min(np.abs(s - kj))) if kj.size else math.inf for s in crit]
-        ok = all(d < 0.02 * sep or d > 3 * sep for d in near)
-        if ok and sum(d < 0.02 * sep for d in near) == len([s for s in rep.singularities]):
+        ok = True
+        count = [0] * len(kj)
+        for c in crit:
+            d = np.abs(c - kj)
+            i = int(np.argmin(d))
+            if d[i] < 0.02 * near[i]:
+                count[i] += 1
+            elif d[i] < 3 * near[i]:
+                ok = False
+        ok = ok and all(n == 1 for n in count)
+        if ok:
             return sign * X
         X *= 2
     raise ScatteringError("could not find an asymptotic region where every saddle has separated from the "

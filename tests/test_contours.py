@@ -62,7 +62,7 @@ def _usable(a, b):
     return rep
 
 
-@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(random_equations())
 def test_basis_solves_random_equations(eqn):
     """Every basis contour gives an exact solution: |L phi| <= 1e-9 max_n |(a_n + b_n x) phi^(n)|.
