@@ -110,8 +110,12 @@ class Contour:
                    f"valley {a} -> valley {b} ({winding})")
 
     @classmethod
-    def loop(cls, point, valley=None):
-        return cls([(1, "loop", {"point": point, "valley": valley})], f"loop around {point} from valley {valley}")
+    def loop(cls, point, valley=None, *, sheet=0):
+        """Loop around a singular point from a valley; ``sheet`` adds 2 pi sheet to arg(k - point) on entry."""
+        if isinstance(sheet, bool) or not isinstance(sheet, (int, np.integer)):
+            raise ContourError(f"sheet must be an integer, got {sheet!r}")
+        return cls([(1, "loop", {"point": point, "valley": valley, "sheet": int(sheet)})],
+                   f"loop around {point} from valley {valley}" + (f", sheet {sheet}" if sheet else ""))
 
     @classmethod
     def half_line(cls, point, valley=None):
@@ -273,7 +277,7 @@ def representative(rep, x, kind, params, crit, level):
         # start logs: cut-plane branch; for k_j itself arg = th reduced into (cut, cut + 2 pi]
         p0 = verts[0]
         start_logs = phase.cut_plane_logs(rep, p0)[0]
-        arg = _reduce(th, rep.cut_angle)
+        arg = _reduce(th, rep.cut_angle) + 2 * math.pi * params.get("sheet", 0)
         start_logs[j] = math.log(abs(p0 - kj)) + 1j * arg
     else:  # pragma: no cover
         raise ContourError(f"unknown contour kind {kind!r}")

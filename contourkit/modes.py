@@ -192,6 +192,16 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
 
 
 def _branch_constant(rep, geom, i, b, dd, dps):
+    """Flux constant of the long-wavelength mode at branch point b (exact large-x limit).
+
+    The loop's entry sheet (alpha) and orientation (Delta) are read off the
+    traced thimble where its arms leave the saddle's neighbourhood.  When
+    |nu| is large the thimble stays close to its saddle (the integrand is
+    sharply peaked) and the arms never get far enough; then the candidate
+    (alpha, Delta) whose exact value is closest to the saddle-point estimate
+    of the same thimble is taken (candidates differ by factors
+    exp(2 pi |Im nu|), the estimate is good to O(1/|nu|)).
+    """
     t = geom.thimbles[i]
     x = geom.x
     theta = math.pi / 2 if x > 0 else -math.pi / 2
@@ -202,28 +212,20 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         # arg(k - k_b) where the arm has left the saddle's neighbourhood but is still local
         d = np.abs(arm.k - kb0)
         idx = np.nonzero(d > 20 * r0)[0]
-        i = int(idx[0]) if idx.size else len(arm.k) - 1
-        return arm.logs[i][b].imag
-    a_in = local_arg(t.minus)
-    a_out = local_arg(t.plus)
-    m_in = round((a_in - theta) / (2 * math.pi))
-    m_out = round((a_out - theta) / (2 * math.pi))
-    delta = 2 * math.pi * (m_out - m_in)
-    if abs(abs(delta) - 2 * math.pi) > 1e-9:
-        raise ScatteringError(f"the thimble at the branch point {rep.singularities[b].point} does not encircle it "
-                              f"(winding {delta / (2 * math.pi):.3g}); the geometry at x = {x} is not asymptotic yet")
+        return arm.logs[int(idx[0])][b].imag if idx.size else None
+    a_in, a_out = local_arg(t.minus), local_arg(t.plus)
     with mpmath.workdps(dps + 10):
         Q, kjm, num, ess = rep.mp_data(dps)
+        data = (Q, kjm, num, ess)
         nu = num[b]
         if abs(mpmath.re(nu) + mpmath.mpf(1) / 2) > mpmath.mpf(10) ** (-12):
             raise ScatteringError(f"the exponent {complex(nu):.6g} at {rep.singularities[b].point} has real part "
                                   f"!= -1/2: the model is not formally self-adjoint there and the flux of the "
                                   f"long-wavelength mode is not conserved")
-        alpha = theta + 2 * mpmath.pi * m_in
         sig = mpmath.mpc(t.sigma)
-        ls = phase.to_mp_logs(t.plus.logs[0], (Q, kjm, num, ess), sig, t.sigma)
+        ls = phase.to_mp_logs(t.plus.logs[0], data, sig, t.sigma)
         kb = kjm[b]
-        lb = phase.continue_logs_mp((Q, kjm, num, ess), sig, ls, kb + (sig - kb) * mpmath.mpf(10) ** (-dps))
+        lb = phase.continue_logs_mp(data, sig, ls, kb + (sig - kb) * mpmath.mpf(10) ** (-dps))
         # h(k_b): everything but the (k - k_b)^nu factor and e^{i k_b x} (modulus one for real k_b)
         logh = (mpmath.polyval(Q, kb) if Q else 0)
         for j in range(len(kjm)):
@@ -231,11 +233,37 @@ def _branch_constant(rep, geom, i, b, dd, dps):
                 logh += num[j] * lb[j]
             for p, c in enumerate(ess[j], start=1):
                 logh += c * (kb - kjm[j]) ** (-p)
-        h2 = mpmath.exp(2 * mpmath.re(logh))
-        loop = abs(mpmath.gamma(nu + 1)) ** 2 * mpmath.exp(-2 * mpmath.im(nu) * alpha) * \
-            abs(mpmath.expj(nu * delta) - 1) ** 2
-        c2 = 2 * mpmath.pi * abs(dd.ds1(kb)) * loop * h2
-        return mpmath.sqrt(c2)
+        pref = 2 * mpmath.pi * abs(dd.ds1(kb)) * mpmath.exp(2 * mpmath.re(logh)) * abs(mpmath.gamma(nu + 1)) ** 2
+
+        def c2_of(m_in, delta):
+            alpha = theta + 2 * mpmath.pi * m_in
+            return pref * mpmath.exp(-2 * mpmath.im(nu) * alpha) * abs(mpmath.expj(nu * delta) - 1) ** 2
+
+        if a_in is not None and a_out is not None:
+            m_in = round((a_in - theta) / (2 * math.pi))
+            m_out = round((a_out - theta) / (2 * math.pi))
+            delta = 2 * math.pi * (m_out - m_in)
+            if abs(abs(delta) - 2 * math.pi) > 1e-9:
+                raise ScatteringError(f"the thimble at the branch point {rep.singularities[b].point} does not "
+                                      f"encircle it (winding {delta / (2 * math.pi):.3g}); the geometry at "
+                                      f"x = {x} is not asymptotic yet")
+            return mpmath.sqrt(c2_of(m_in, mpmath.mpf(delta)))
+        # saddle-point estimate of the same thimble at x: |I| sqrt(2 pi |dD/dk|)
+        xm = mpmath.mpf(x)
+        Phi = phase.phi_mp(data, xm, sig, ls)
+        f2 = _phi_derivs(data, xm, sig)[0]
+        est = mpmath.exp(2 * mpmath.re(Phi)) * 2 * mpmath.pi / abs(f2) * 2 * mpmath.pi * abs(dd.dDdk(sig, xm))
+        m0 = round((float(mpmath.im(ls[b])) - theta) / (2 * math.pi))
+        cands = []
+        for m_in in range(m0 - 2, m0 + 3):
+            for delta in (2 * mpmath.pi, -2 * mpmath.pi):
+                c2 = c2_of(m_in, delta)
+                cands.append((abs(float(mpmath.log(c2 / est))), c2))
+        cands.sort(key=lambda c: c[0])
+        if cands[0][0] > 0.5 or (len(cands) > 1 and cands[1][0] - cands[0][0] < 3):
+            raise ScatteringError(f"could not identify the loop of the long-wavelength mode at "
+                                  f"{rep.singularities[b].point} (exponent {complex(nu):.4g}) at x = {x}")
+        return mpmath.sqrt(cands[0][1])
 
 
 def _saddle_constant(rep, geom, i, dd, dps):

@@ -134,7 +134,7 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
             dist, j = P.nearest_singular(k)
             # an arm can only end where the integrand vanishes (descent) or blows up (ascent)
             can = bool(P.ess[j]) or (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
-            if can and dist < min(1e-3 * other[j], 1e-2 * abs(sigma - P.kj[j])) and len(ks) > 2 \
+            if can and dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j])) and len(ks) > 2 \
                     and dist < abs(ks[-2] - P.kj[j]):
                 end, sink = ("source" if ascent else "sink"), j
                 break

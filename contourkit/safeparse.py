@@ -28,11 +28,12 @@ MAX_EXPONENT = 64        # |b| in a ** b
 MAX_DEGREE = 64          # bound on polynomial degree / size growth of the result
 MAX_TERMS = 10_000       # bound on the number of terms a full expansion could give
 MAX_DERIVATIVE = 12      # n in der(f, n)
+MAX_NESTING = 2          # functions inside functions (sympy's own simplification of deeper nests is slow)
 
 FUNCTIONS = types.MappingProxyType({
     "sqrt": sp.sqrt, "exp": sp.exp, "log": sp.log, "sin": sp.sin, "cos": sp.cos,
     "tan": sp.tan, "sinh": sp.sinh, "cosh": sp.cosh, "tanh": sp.tanh, "atan": sp.atan,
-    "atanh": sp.atanh, "asinh": sp.asinh, "abs": sp.Abs, "sech": lambda a: 1 / sp.cosh(a),
+    "atanh": sp.atanh, "asinh": sp.asinh, "abs": sp.Abs, "sech": lambda a, evaluate=True: 1 / sp.cosh(a, evaluate=evaluate),
 })
 CONSTANTS = types.MappingProxyType({"pi": sp.pi, "E": sp.E, "I": sp.I})
 
@@ -72,6 +73,7 @@ class _Parser:
         self.text = text
         self.symbols = symbols
         self.functions = functions
+        self.nesting = 0
 
     # -- messages -----------------------------------------------------
     def piece(self, node):
@@ -205,7 +207,12 @@ class _Parser:
             self.refuse("call of", f, f" (the function '{f.id}' is not on the whitelist)")
         if not node.args or (f.id in FUNCTIONS and len(node.args) != 1):
             raise ModelFileError(f"'{self.piece(node)}': {f.id}() takes exactly one argument")
+        self.nesting += 1
+        if self.nesting > MAX_NESTING:
+            raise ModelFileError(f"'{self.piece(node)}' nests functions more than {MAX_NESTING} deep; "
+                                 f"write the inner part as a profile or simplify it")
         bounds = [self.check(a) for a in node.args]
+        self.nesting -= 1
         return max(g for g, _ in bounds), 1
 
     def derivative(self, node):
@@ -258,7 +265,11 @@ class _Parser:
             f = self.symbols[node.args[0].id]
             n = node.args[1].value if len(node.args) == 2 else 1
             return sp.Derivative(f, (f.args[0], n))
-        return self.functions[name](*[self.build(a) for a in node.args])
+        args = [self.build(a) for a in node.args]
+        if name in FUNCTIONS and not all(a.is_number for a in args):
+            # sympy's automatic simplification of symbolic arguments has no cost bound; keep it for later
+            return FUNCTIONS[name](*args, evaluate=False)
+        return self.functions[name](*args)
 
 
 def _check_tables(symbols, functions):

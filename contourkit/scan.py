@@ -118,7 +118,7 @@ def omega_grid(start, stop, *, points, log=False):
 
     Examples
     --------
-    >>> omega_grid(0.01, 0.04, points=3, log=True)
+    >>> [round(w, 12) for w in omega_grid(0.01, 0.04, points=3, log=True)]
     [0.01, 0.02, 0.04]
     """
     if isinstance(points, bool) or not isinstance(points, (int, np.integer)) or points < 1:
@@ -324,8 +324,9 @@ def _dask(model, todo, put, *, scheduler, dps, record):
         futures = [client.submit(compute_row, shared, w, dps=dps, record_errors=record, pure=False)
                    for w in todo]
         index = {f.key: i for i, f in enumerate(futures)}
-        for f in as_completed(futures):
-            put(index[f.key], f.result())
+        with client.as_current():
+            for f in as_completed(futures):
+                put(index[f.key], f.result())
     finally:
         client.close()
 

@@ -408,3 +408,55 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False):
         rows.append(row)
         results.append(res)
     return Spectrum(rows, results)
+
+
+def continuation_ratio(eq, point, *, through="upper", x=2000.0):
+    """Amplitude ratio of a long-wavelength wave continued past x = 0 through a half-plane.
+
+    For equations whose only valley at infinity comes from exp(i k x)
+    (deg Q <= 1: Budden-type, non-dispersive horizons), a solution analytic in
+    the upper (lower) half x-plane is the loop around the branch point k_b
+    entered from the direction that rotates with x.  Far from x = 0 it is the
+    single wave ``exp(i k_b x)`` times a power on both sides; the function
+    returns ``|amplitude at -x| / |amplitude at +x|`` from exact contour values
+    at x, 2x (Richardson extrapolation in 1/x removes the first correction).
+
+    Parameters
+    ----------
+    eq : ModeEquation
+    point : the branch point k_b
+    through : {"upper", "lower"}  the half x-plane of the continuation
+    x : float > 0                 position at which the amplitudes are compared
+
+    Examples
+    --------
+    >>> import sympy as sp, contourkit as ck, math
+    >>> X = sp.Symbol("x"); y = sp.Function("y")
+    >>> eq = ck.ModeEquation.from_ode(X*y(X).diff(X, 2) + (X + 1)*y(X), y, X)   # Budden, b = 1
+    >>> r = continuation_ratio(eq, -1)
+    >>> abs(r - math.exp(-math.pi / 2)) < 1e-5
+    True
+    """
+    if through not in ("upper", "lower"):
+        raise InputError(f"through must be 'upper' or 'lower', got {through!r}")
+    from .contours import Contour
+    rep = eq.fourier()
+    if rep.degree_Q >= 2:
+        raise ScatteringError("this equation has valleys of its own at infinity; continuation past x = 0 is "
+                              "not needed, use scatter() on a horizon model")
+    x = float(x)
+    if not (x > 0 and math.isfinite(x)):
+        raise InputError(f"x must be a positive finite position, got {x!r}")
+    # the entry direction rotates from +pi/2 (x > 0) to -pi/2 (x < 0) clockwise through the upper
+    # half x-plane, counter-clockwise (to +3pi/2) through the lower one
+    th_neg = -math.pi / 2 if through == "upper" else 3 * math.pi / 2
+    from .contours import _reduce
+    sheet = round((th_neg - _reduce(-math.pi / 2, rep.cut_angle)) / (2 * math.pi))
+    pos = Contour.loop(point)
+    neg = Contour.loop(point, sheet=sheet)
+    vals = []
+    for X in (x, 2 * x):
+        a = abs(complex(rep.evaluate(pos, X)))
+        b = abs(complex(rep.evaluate(neg, -X)))
+        vals.append(b / a)
+    return 2 * vals[1] - vals[0]
