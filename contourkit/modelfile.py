@@ -151,12 +151,19 @@ class _File:
                       f"the function names); rename it")
         return key
 
-    def expression(self, text, symbols, where, values):
+    def expression(self, text, symbols, where, values, *, outside=(), why=""):
+        """Parse `text`; the symbols in `outside` may not appear inside functions or non-integer powers."""
         try:
             expr = parse_expression(text, symbols=symbols)
         except ModelFileError as exc:
             self.fail(f"{where}: {exc}")
         _check_exponents(self, expr, values, where)
+        for node in sp.preorder_traversal(expr):
+            inner = (isinstance(node, sp.Function) and not isinstance(node, sp.core.function.AppliedUndef)) \
+                or (isinstance(node, sp.Pow) and not node.exp.is_Integer)
+            bad = [str(s) for s in outside if inner and node.has(s)]
+            if bad:
+                self.fail(f"{where}: {bad[0]} appears inside '{str(node)[:60]}'; {why}")
         return expr
 
 
@@ -291,12 +298,16 @@ def load_model(path):
     where = "[model] equation"
     if kind == "dispersion":
         symbols = {"omega": _W, "k": _K, "x": _X, **psyms, **{n: sp.Symbol(n) for n in profiles}}
-        D = src.expression(equation, symbols, where, values)
+        D = src.expression(equation, symbols, where, values, outside=(_K, _W),
+                           why="a dispersion relation must be a polynomial in k and omega (no k or omega "
+                               "inside functions, roots or symbolic powers)")
         return _construct(src, lambda: HorizonModel.from_dispersion(
             D, omega=_W, k=_K, x=_X, profiles={sp.Symbol(n): e for n, e in profiles.items()},
             parameters=values, **kw))
     symbols = {"x": _X, "y": _Y(_X), "omega": _W, **psyms, **{n: sp.Function(n)(_X) for n in profiles}}
-    expr = src.expression(equation, symbols, where, values)
+    expr = src.expression(equation, symbols, where, values, outside=(_Y(_X), _W) if profiles else (_Y(_X),),
+                          why="the equation must be linear in y (and, with profiles, polynomial in omega): keep "
+                              "y, der(y, n) and omega out of functions, roots and symbolic powers")
     if profiles:
         return _construct(src, lambda: HorizonModel.from_ode(
             expr, _Y, _X, profiles={sp.Function(n): e for n, e in profiles.items()},

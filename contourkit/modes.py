@@ -235,10 +235,17 @@ def _branch_constant(rep, geom, i, b, dd, dps):
                 logh += c * (kb - kjm[j]) ** (-p)
         pref = 2 * mpmath.pi * abs(dd.ds1(kb)) * mpmath.exp(2 * mpmath.re(logh)) * abs(mpmath.gamma(nu + 1)) ** 2
 
+        theta_mp = mpmath.pi / 2 if x > 0 else -mpmath.pi / 2
+
         def c2_of(m_in, delta):
-            alpha = theta + 2 * mpmath.pi * m_in
+            alpha = theta_mp + 2 * mpmath.pi * m_in
             return pref * mpmath.exp(-2 * mpmath.im(nu) * alpha) * abs(mpmath.expj(nu * delta) - 1) ** 2
 
+        if a_in is None or a_out is None:
+            # arms that end close to the saddle: their last vertices still show the winding if any
+            e_in, e_out = t.minus.logs[-1][b].imag, t.plus.logs[-1][b].imag
+            if abs(abs(e_out - e_in) - 2 * math.pi) < 0.5 * math.pi:
+                a_in, a_out = e_in, e_out
         if a_in is not None and a_out is not None:
             m_in = round((a_in - theta) / (2 * math.pi))
             m_out = round((a_out - theta) / (2 * math.pi))
@@ -247,7 +254,7 @@ def _branch_constant(rep, geom, i, b, dd, dps):
                 raise ScatteringError(f"the thimble at the branch point {rep.singularities[b].point} does not "
                                       f"encircle it (winding {delta / (2 * math.pi):.3g}); the geometry at "
                                       f"x = {x} is not asymptotic yet")
-            return mpmath.sqrt(c2_of(m_in, mpmath.mpf(delta)))
+            return mpmath.sqrt(c2_of(m_in, 2 * mpmath.pi * (m_out - m_in)))
         # saddle-point estimate of the same thimble at x: |I| sqrt(2 pi |dD/dk|)
         xm = mpmath.mpf(x)
         Phi = phase.phi_mp(data, xm, sig, ls)
@@ -260,6 +267,12 @@ def _branch_constant(rep, geom, i, b, dd, dps):
                 c2 = c2_of(m_in, delta)
                 cands.append((abs(float(mpmath.log(c2 / est))), c2))
         cands.sort(key=lambda c: c[0])
+        # (m, +2 pi) and (m + 1, -2 pi) are the same loop: keep distinct values only
+        uniq = []
+        for c in cands:
+            if not any(abs(c[1] / u[1] - 1) < 1e-9 for u in uniq):
+                uniq.append(c)
+        cands = uniq
         if cands[0][0] > 0.5 or (len(cands) > 1 and cands[1][0] - cands[0][0] < 3):
             raise ScatteringError(f"could not identify the loop of the long-wavelength mode at "
                                   f"{rep.singularities[b].point} (exponent {complex(nu):.4g}) at x = {x}")

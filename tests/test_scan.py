@@ -147,7 +147,7 @@ def test_dask_cluster_gives_the_local_rows(tmp_path):
         model = ck.load_model(SUPER)
         rows = scan(model, [0.01, 0.02, 0.03], scheduler=cluster.scheduler_address).rows
     assert remote.read_text().splitlines() == local.read_text().splitlines()
-    assert [r["thermal_ratio"] for r in rows] == [r["thermal_ratio"] for r in read_table(local)]
+    assert [r["thermal_ratio"] for r in rows] == [r["thermal_ratio"] for r in read_table(local)], (rows, read_table(local))
 
 
 def test_unreachable_scheduler_is_one_line(tmp_path):

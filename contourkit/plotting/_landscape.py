@@ -396,6 +396,10 @@ def _draw(ax, fig, rep, x, win, sad, crit, geom, coeffs, resolution, clip, n_lev
             handles.append(Line2D([], [], color=PALETTE["contour"], lw=1.4, marker=r"$\rightarrow$",
                                   markersize=7, label=LEGEND["path"]))
             starts = np.array([geom.thimbles[i].sigma for _n, i, _c in coeffs], dtype=complex)
+            # mark the start only where it is visibly away from a saddle marker (O(1/x) apart)
+            tol = 0.012 * max(xmax - xmin, ymax - ymin)
+            starts = np.array([p for p in starts if not sad.size or np.min(np.abs(sad - p)) > tol], dtype=complex)
+        if coeffs and starts.size:
             ln, = ax.plot(starts.real, starts.imag, ls="none", marker="o", ms=2.6, mfc="white", mec="black",
                           mew=0.7, zorder=8, gid="critical-point", label=LEGEND["critical"])
             handles.append(ln)
