@@ -33,6 +33,14 @@ from .errors import ContourError, InputError, ModelError
 K = sp.Symbol("k")
 
 
+def _clean(v):
+    """Cheap canonical form of an exact number (much faster than sympy.simplify)."""
+    v = sp.expand(v)
+    if v.is_number and v.has(sp.Pow):
+        v = sp.expand(sp.radsimp(v))
+    return v
+
+
 def _roots_with_multiplicity(B):
     """Exact roots of the polynomial B (sympy Poly) with multiplicities; numeric where needed."""
     out = []
@@ -55,7 +63,7 @@ def _roots_with_multiplicity(B):
                 rts = [sp.Float(r, 60) if r.is_real else sp.Float(sp.re(r), 60) + I * sp.Float(sp.im(r), 60)
                        for r in sp.Poly(p, K).nroots(n=60, maxsteps=400)]
         for r in rts:
-            out.append((sp.nsimplify(r) if False else sp.simplify(r), mult))
+            out.append((_clean(r), mult))
     # merge numerically equal roots (from different factors) keeping order
     merged = []
     for r, m in out:
@@ -157,12 +165,13 @@ class KSpaceRepresentation:
         B = sp.Poly(equation.B, K)
         self.A, self.B = A, B
         f = sp.Function("f")
-        self.kspace_ode = sp.Eq(I * B.as_expr() * f(K).diff(K) + (A.as_expr() + I * B.diff(K).as_expr()) * f(K), 0)
+        self.kspace_ode = sp.Eq(I * B.as_expr() * f(K).diff(K) + (A.as_expr() + I * B.diff(K).as_expr()) * f(K), 0,
+                                evaluate=False)
         N = sp.Poly(I * A.as_expr() - B.diff(K).as_expr(), K)
         q, r = sp.div(N, B)
         self.dexponent = sp.together(N.as_expr() / B.as_expr())
         Qp = q
-        Q = sp.Poly(sp.integrate(Qp.as_expr(), K), K) if not Qp.is_zero else sp.Poly(0, K)
+        Q = Qp.integrate() if not Qp.is_zero else sp.Poly(0, K)
         self.polynomial_part = Q
         sings = []
         if B.degree() > 0:
@@ -174,18 +183,18 @@ class KSpaceRepresentation:
                 coeffs = []
                 hl = h
                 for l in range(m):
-                    val = sp.simplify(hl.subs(K, kj)) / sp.factorial(l)
+                    val = _clean(hl.subs(K, kj)) / sp.factorial(l)
                     coeffs.append(val)
                     if l < m - 1:
                         hl = sp.diff(hl, K)
-                nu = sp.nsimplify(coeffs[m - 1]) if coeffs[m - 1].is_Rational else sp.simplify(coeffs[m - 1])
+                nu = _clean(coeffs[m - 1])
                 # coefficient c_l multiplies (k-kj)^(l-m); integrates to c_l (k-kj)^(l-m+1)/(l-m+1)
-                ess = [sp.simplify(coeffs[l] / (l - m + 1)) for l in range(m - 1)]  # power (l-m+1) < 0
+                ess = [_clean(coeffs[l] / (l - m + 1)) for l in range(m - 1)]  # power (l-m+1) < 0
                 ess_by_power = {}
                 for l in range(m - 1):
                     ess_by_power[m - 1 - l] = ess[l]
                 ess_list = [ess_by_power.get(p, 0) for p in range(1, m)]
-                while ess_list and sp.simplify(ess_list[-1]) == 0:
+                while ess_list and _clean(ess_list[-1]) == 0:
                     ess_list.pop()
                 sings.append(Singularity(kj, nu, ess_list))
         # a zero of B where E' is analytic (exponent 0, no essential part) is an ordinary point of f

@@ -341,4 +341,5 @@ def example_path(name):
         raise ModelFileError(f"no example model {name!r}; the shipped examples are {', '.join(names)}")
     return folder / f"{stem}.toml"
 
+
 __all__ = ["load_model", "example_path"]

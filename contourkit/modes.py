@@ -68,27 +68,62 @@ class ModeData:
 
 
 class DispersionDerivatives:
-    """Numeric D, dD/dk and dD/domega of the linearised model at one frequency."""
+    """Numeric D, dD/dk and dD/domega of the linearised model at one frequency.
+
+    D = sigma0(k) + x sigma1(k) is the Weyl symbol of the near-horizon equation;
+    dD/domega comes from the model's linearised symmetric coefficients, turned
+    into a function of (k, x, omega) once per model and cached on it.
+    """
 
     def __init__(self, model, omega, eq):
-        X = sp.Symbol("x")
-        w = sp.Symbol("omega")
-        Dw = sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin))
-        self.dDdw = sp.lambdify((K, X), sp.diff(Dw, w).subs(w, sp.nsimplify(omega)), "mpmath")
+        cache = getattr(model, "_dDdw_cache", None)
+        if cache is None:
+            X, w = sp.Symbol("x"), sp.Symbol("omega")
+            Dw = sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin))
+            cache = sp.lambdify((K, X, w), sp.diff(Dw, w), "mpmath")
+            model._dDdw_cache = cache
+        self._dDdw = cache
+        self.omega = mpmath.mpf(sp.Rational(repr(float(omega))).p) / sp.Rational(repr(float(omega))).q
         s0, s1 = eq.weyl_symbol
         self.s0 = sp.Poly(s0, K)
         self.s1 = sp.Poly(s1, K)
-        self.D = sp.lambdify((K, X), s0 + X * s1, "mpmath")
-        self.dDdk = sp.lambdify((K, X), sp.diff(s0 + X * s1, K), "mpmath")
-        self.ds1 = sp.lambdify(K, sp.diff(s1, K), "mpmath")
-        self.s0_np = np.array([complex(c) for c in self.s0.all_coeffs()])
-        self.s1_np = np.array([complex(c) for c in self.s1.all_coeffs()])
-        n = max(len(self.s0_np), len(self.s1_np))
-        self.s0_np = np.concatenate([np.zeros(n - len(self.s0_np), complex), self.s0_np])
-        self.s1_np = np.concatenate([np.zeros(n - len(self.s1_np), complex), self.s1_np])
+        n = max(self.s0.degree(), self.s1.degree()) + 1
+        self._c0 = [sp.Integer(0)] * (n - len(self.s0.all_coeffs())) + self.s0.all_coeffs()
+        self._c1 = [sp.Integer(0)] * (n - len(self.s1.all_coeffs())) + self.s1.all_coeffs()
+        self.s0_np = np.array([complex(c) for c in self._c0])
+        self.s1_np = np.array([complex(c) for c in self._c1])
+        self._mp = {}
+
+    def _coeffs(self):
+        dps = mpmath.mp.dps
+        if dps not in self._mp:
+            c0 = [mpmath.mpc(*(mpmath.mpf(str(sp.N(v, dps + 5))) for v in sp.N(c, dps + 5).as_real_imag()))
+                  for c in self._c0]
+            c1 = [mpmath.mpc(*(mpmath.mpf(str(sp.N(v, dps + 5))) for v in sp.N(c, dps + 5).as_real_imag()))
+                  for c in self._c1]
+            self._mp[dps] = (c0, c1, _polyder(c0), _polyder(c1))
+        return self._mp[dps]
+
+    def D(self, k, x):
+        c0, c1, _, _ = self._coeffs()
+        return mpmath.polyval(c0, k) + x * mpmath.polyval(c1, k)
+
+    def dDdk(self, k, x):
+        _, _, d0, d1 = self._coeffs()
+        return mpmath.polyval(d0, k) + x * mpmath.polyval(d1, k)
+
+    def ds1(self, k):
+        return mpmath.polyval(self._coeffs()[3], k)
+
+    def dDdw(self, k, x):
+        return self._dDdw(k, x, self.omega)
 
     def roots(self, x, dps=30):
-        coeffs = [mpmath.mpc(sp.N(c, dps + 5)) for c in sp.Poly(self.s0.as_expr() + sp.nsimplify(x) * self.s1.as_expr(), K).all_coeffs()]
+        with mpmath.workdps(dps + 5):
+            c0, c1, _, _ = self._coeffs()
+            coeffs = [a + mpmath.mpf(x) * b for a, b in zip(c0, c1)]
+        while len(coeffs) > 1 and coeffs[0] == 0:
+            coeffs = coeffs[1:]
         rough = np.roots([complex(c) for c in coeffs])
         return polish(coeffs, rough, dps)
 

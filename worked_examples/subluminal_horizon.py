@@ -52,9 +52,9 @@ def main(out_dir="."):
     table.to_csv(out / "subluminal_check.csv")
 
     w = 2 * T_H
-    fig, axes = plt.subplots(1, 2, figsize=(6.8, 2.8), sharey=True)
+    fig, axes = plt.subplots(1, 2, figsize=(6.8, 3.2))
     for ax, x in zip(axes, (-20.0, 20.0)):
-        plotting.dispersion(model, x=x, omega=w, ax=ax)
+        plotting.dispersion(model, x=x, omega=w, ax=ax, legend=x > 0)
         ax.set_title(f"x = {x:g}", fontsize=8)
     plotting.save(fig, out / "subluminal_dispersion", ("png",))
     plt.close(fig)

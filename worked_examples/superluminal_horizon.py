@@ -43,9 +43,12 @@ def main(out_dir="."):
     spec.to_csv(out / "superluminal_spectrum.csv")
 
     rep = model.mode_equation(T_H).fourier()
-    for name, (fig, _) in {"landscape": plotting.landscape(rep, 20.0, contour=rep.basis()[0]),
-                           "dispersion": plotting.dispersion(model, x=20.0, omega=T_H),
-                           "spectrum": plotting.spectrum(spec)}.items():
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ck.CoalescenceWarning)
+        figures = {"landscape": plotting.landscape(rep, 20.0, contour=rep.basis()[0]),
+                   "dispersion": plotting.dispersion(model, x=20.0, omega=T_H),
+                   "spectrum": plotting.spectrum(spec)}
+    for name, (fig, _) in figures.items():
         plotting.save(fig, out / f"superluminal_{name}", ("png",))
         plt.close(fig)
     print(f"table and figures written to {out}")
