@@ -92,7 +92,7 @@ def coefficient(rep, terms, crossing_list, nu, exp2pii):
     return total
 
 
-def decompose(rep, contour, x, *, u_stop=40.0):
+def decompose(rep, contour, x, *, u_stop=40.0, descent=True):
     """Thimble coefficients of a contour (or of a list of contours, sharing one geometry) at x.
 
     Returns
@@ -102,6 +102,9 @@ def decompose(rep, contour, x, *, u_stop=40.0):
         crossings is a list of (term index, sign, sheet shift) from which the
         coefficient is recomputed at any precision by :func:`coefficient`.
         For a list of contours, a list of such lists.
+    descent : bool or callable
+        Trace the descent arms (needed for quadrature); a callable decides per
+        critical point.  Intersection numbers need only the ascent arms.
     """
     many = isinstance(contour, (list, tuple))
     contours = list(contour) if many else [contour]
@@ -126,7 +129,8 @@ def decompose(rep, contour, x, *, u_stop=40.0):
     nu = list(rep._nu)
     for i, s in enumerate(crit):
         u_up = max(cmax - phis[i] + 4.0, 4.0)
-        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax)
+        want = descent(s) if callable(descent) else descent
+        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax, descent=want)
         thims.append(t)
         for c, (cont, reps) in enumerate(zip(contours, reps_all)):
             cl = []

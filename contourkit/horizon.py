@@ -206,7 +206,7 @@ class HorizonModel:
             if vals[i] == 0:
                 roots.append(xs[i])
             elif vals[i] * vals[i + 1] < 0:
-                roots.append(brentq(lambda t: float(np.real(f(t))), xs[i], xs[i + 1], xtol=1e-15, rtol=4e-16))
+                roots.append(brentq(lambda t: float(np.real(f(t))), xs[i], xs[i + 1], xtol=1e-15, rtol=1e-15))
         if not roots:
             raise HorizonError(f"no horizon in the window {self.window}: the low-frequency group velocity "
                                f"({c0}) does not change sign; widen window=(a, b) or check the profile")

@@ -192,12 +192,21 @@ def descent_direction(rep, x, sigma):
     return cmath.exp(1j * (math.pi - cmath.phase(f2)) / 2)
 
 
-def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0):
-    """Trace the thimble (and, if u_up is given, the dual) through sigma."""
+def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=True):
+    """Trace the thimble (and, if u_up is given, the dual) through sigma.
+
+    With descent=False only the dual (ascent) arms are traced; the descent
+    arms are then single-vertex placeholders (enough for intersection numbers).
+    """
     d = descent_direction(rep, x, sigma)
-    plus = trace_arm(rep, x, sigma, d, u_stop=u_stop, crit=crit)
-    minus = trace_arm(rep, x, sigma, -d, u_stop=u_stop, crit=crit)
-    for a in (plus, minus):
+    if not descent:
+        logs0 = phase.cut_plane_logs(rep, sigma)[0] if rep._kj.size else np.zeros(0, complex)
+        stub = Arm(np.array([sigma], dtype=complex), logs0.reshape(1, -1), "not traced")
+        plus = minus = stub
+    else:
+        plus = trace_arm(rep, x, sigma, d, u_stop=u_stop, crit=crit)
+        minus = trace_arm(rep, x, sigma, -d, u_stop=u_stop, crit=crit)
+    for a in (plus, minus) if descent else ():
         if a.end == "stalled":
             raise AccuracyError(f"a steepest-descent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
                                 f"after {len(a.k)} steps near k = {a.k[-1]:.6g}; this happens where saddles "

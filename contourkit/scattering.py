@@ -98,8 +98,13 @@ def _asymptotic_x(rep, sign):
 def _side_geometry(rep, contours, dd, sign, kappa):
     """Double-precision geometry on one side: thimbles, crossings, stability at 2X."""
     X = _asymptotic_x(rep, sign)
-    g0, coeffs = decompose(rep, contours, X)
-    _, cf2s = decompose(rep, contours, 2 * X)
+    kj = rep._kj
+
+    def near_branch(s):
+        # descent arms are needed only where a loop constant is read off (long-wavelength modes)
+        return bool(kj.size) and float(np.min(np.abs(s - kj))) < 0.05 * max(1.0, float(np.max(np.abs(kj))))
+    g0, coeffs = decompose(rep, contours, X, descent=near_branch)
+    _, cf2s = decompose(rep, contours, 2 * X, descent=False)
     for c, cf2 in enumerate(cf2s):
         a = sorted((i, round(abs(n), 6)) for n, i, _ in coeffs[c])
         b = sorted((i, round(abs(n), 6)) for n, i, _ in cf2)

@@ -106,8 +106,6 @@ def test_ode_without_profiles_uses_omega_value(tmp_path):
     assert sp.expand(eq.A - (-K ** 2 + sp.Rational(1, 2))) == 0 and eq.B == 1
 
 
-@pytest.mark.xfail(reason="contourkit/horizon.py calls brentq with rtol=4e-16 < 4*eps, which scipy "
-                          "refuses, whenever the horizon lies between grid points", raises=ModelFileError)
 def test_horizon_between_grid_points(tmp_path):
     m = load_model(write(tmp_path, TANH_FLOW.replace("x - 3", "x - 3.01")))
     # analytic: v(3.01) = -1, v'(3.01) = 0.1*2

@@ -21,7 +21,8 @@ autodoc_typehints = "none"
 exclude_patterns = ["_build"]
 html_theme = "alabaster"
 # type fields written in words ("sympy expression in k") make ambiguous cross-references
-suppress_warnings = ["ref.python"]
+# numpydoc References sections list sources without citing them in the text
+suppress_warnings = ["ref.python", "ref.footnote"]
 
 _LITERAL = __import__("re").compile(r"(``.*?``|`[^`]*`)")
 
@@ -29,7 +30,7 @@ _LITERAL = __import__("re").compile(r"(``.*?``|`[^`]*`)")
 def _escape_bars(app, what, name, obj, options, lines):
     """Docstrings write absolute values as |beta|^2; outside literals, keep the bars literal for docutils."""
     for i, line in enumerate(lines):
-        if "|" in line and not line.lstrip().startswith(("+", "|")):
+        if "|" in line and not line.lstrip().startswith("+"):
             parts = _LITERAL.split(line)
             lines[i] = "".join(p if j % 2 else p.replace("|", r"\|") for j, p in enumerate(parts))
 
