@@ -171,6 +171,22 @@ def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
     return last
 
 
+def _physical_label(side, k, x, label_x, dd, origin):
+    """Labels of a real root: at label_x (near the horizon) when the root can be followed there.
+
+    Far out, the linearised profile stops describing the background (a flow's
+    speed grows without bound and changes sign), which can flip the labels of
+    a mode while its flux constant stays the same; so the labels are taken
+    where the linear model is still the near-horizon one.  If the root turns
+    complex on the way (a turning point: the mode does not reach that far in),
+    the labels at the farthest point where it is real before that are used.
+    """
+    if label_x is None or label_x == x:
+        return _label(side, mpmath.mpf(k), x, dd, origin)
+    r, xl = _track_root(dd, k, x, label_x)
+    return _label(side, mpmath.mpf(complex(r).real), float(xl), dd, origin)
+
+
 def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
     """One ModeData per critical point of the geometry at x = geom.x (|x| large).
 
@@ -202,7 +218,7 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
                 kind = "growing" if (kb.imag < 0) == (x > 0) else "decaying"
                 out.append(ModeData(i, Mode(side, "none", 0, kind, complex(kb), origin="branch point", x=x), None, b))
                 continue
-            m = _label(side, mpmath.mpf(float(mpmath.re(r))), x, dd, "branch point")
+            m = _physical_label(side, float(mpmath.re(r)), x, label_x, dd, "branch point")
             m.k = complex(kb)
             out.append(ModeData(i, m, _branch_constant(rep, geom, i, b, dd, dps), b))
         else:
@@ -210,14 +226,7 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             rc = complex(r)
             if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
                 xl = x if label_x is None else label_x
-                m = _label(side, mpmath.mpf(rc.real), x, dd, "saddle")
-                if xl != x:
-                    # the linear model's flow speed changes sign far out, which flips norm and
-                    # direction together; the labels nearer the horizon are then the physical ones
-                    rl, xl = _track_root(dd, rc.real, x, xl)
-                    near = _label(side, mpmath.mpf(complex(rl).real), float(xl), dd, "saddle")
-                    if near.norm != m.norm:
-                        m = near
+                m = _physical_label(side, rc.real, x, label_x, dd, "saddle")
                 m.k = rc
                 out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1))
             else:
