@@ -181,10 +181,13 @@ def _physical_label(side, k, x, label_x, dd, origin):
     complex on the way (a turning point: the mode does not reach that far in),
     the labels at the farthest point where it is real before that are used.
     """
+    far = _label(side, mpmath.mpf(k), x, dd, origin)
     if label_x is None or label_x == x:
-        return _label(side, mpmath.mpf(k), x, dd, origin)
+        return far
     r, xl = _track_root(dd, k, x, label_x)
-    return _label(side, mpmath.mpf(complex(r).real), float(xl), dd, origin)
+    near = _label(side, mpmath.mpf(complex(r).real), float(xl), dd, origin)
+    # the artefact flips norm and direction together; otherwise the far labels stand
+    return near if near.norm != far.norm else far
 
 
 def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
@@ -218,7 +221,8 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
                 kind = "growing" if (kb.imag < 0) == (x > 0) else "decaying"
                 out.append(ModeData(i, Mode(side, "none", 0, kind, complex(kb), origin="branch point", x=x), None, b))
                 continue
-            m = _physical_label(side, float(mpmath.re(r)), x, label_x, dd, "branch point")
+            # long-wavelength modes keep the labels of the asymptotic region
+            m = _label(side, mpmath.mpf(float(mpmath.re(r))), x, dd, "branch point")
             m.k = complex(kb)
             out.append(ModeData(i, m, _branch_constant(rep, geom, i, b, dd, dps), b))
         else:
