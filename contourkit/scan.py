@@ -6,36 +6,25 @@ list of frequencies and writes each row to a CSV table the moment it is
 known, so that a scan stopped by a crash, a kill or a lost connection loses
 only the rows still being computed.
 
-Table format
-------------
+Table, resume and workers
+-------------------------
 One header line with the columns of :data:`COLUMNS`, then one line per
-frequency, in the order of the frequencies given (completions that arrive
-out of order are held back until the rows before them are written, so the
-file of a scan does not depend on the number of workers).  Each line is
-written with a single ``os.write`` of the complete line to a file opened
-with ``O_APPEND``, then flushed to disk (``os.fsync``).
-
-Resume
-------
-Running the same scan with the same output file again reads the rows
-already there, drops a trailing partial line (a write cut short), and
-computes only the frequencies whose ``repr(float(omega))`` is not yet in the
-omega column; the finished file equals the file of an uninterrupted run row
-for row.
-
-Parallel evaluation
--------------------
+frequency in the order given (rows that finish early wait for the rows
+before them, so the file does not depend on the number of workers).  Each
+line is one ``os.write`` of the complete line to a file opened with
+``O_APPEND``, then ``os.fsync``.  Running the same scan on the same file
+again drops a trailing partial line, keeps the complete rows and computes
+only the frequencies whose ``repr(float(omega))`` is not yet in the omega
+column, so the finished file equals that of an uninterrupted run.
 ``workers=N`` runs N local processes
 (:class:`concurrent.futures.ProcessPoolExecutor`); ``scheduler=ADDRESS``
-sends the work to an existing Dask cluster (``pip install
-"contourkit[dask]"``; the workers must be able to import contourkit).  The
-model is pickled to the workers.  mpmath's working precision is process-wide,
-so inside one process the rows are computed one at a time.
+sends the work to a Dask cluster (``pip install "contourkit[dask]"``; the
+workers must import contourkit).  The model is pickled to the workers;
+mpmath's precision is process-wide, so one process computes one row at a time.
 
 Examples
 --------
 >>> import contourkit as ck, tempfile, os
->>> from contourkit.scan import scan, omega_grid
 >>> m = ck.catalogue.nondispersive_flow(kappa=0.05)
 >>> path = os.path.join(tempfile.mkdtemp(), "spec.csv")
 >>> res = scan(m, omega_grid(0.01, 0.03, points=3), out=path, workers=1)
@@ -49,6 +38,7 @@ import io
 import json
 import math
 import os
+import sys
 import threading
 import warnings
 from dataclasses import dataclass, field
@@ -94,10 +84,6 @@ class ScanResult:
     computed: int = 0
     resumed: int = 0
     columns: tuple = field(default=COLUMNS)
-
-    def column(self, key):
-        """One column as a numpy array of floats (None becomes nan only here, for plotting)."""
-        return np.array([math.nan if r[key] is None else float(r[key]) for r in self.rows])
 
 
 def omega_grid(start, stop, *, points, log=False):
@@ -279,9 +265,8 @@ class _Table:
 class _Ordered:
     """Hold rows that finish early until every row before them is written."""
 
-    def __init__(self, sink, count):
+    def __init__(self, sink):
         self.sink, self.next, self.held = sink, 0, {}
-        self.count = count
 
     def put(self, i, row):
         self.held[i] = row
@@ -316,7 +301,7 @@ def _dask(model, todo, put, *, scheduler, dps, record):
     except ImportError:
         raise InputError("a Dask scheduler needs dask.distributed: pip install \"contourkit[dask]\"") from None
     try:
-        client = Client(scheduler, timeout=20, set_as_default=False)
+        client = Client(scheduler, timeout=10, set_as_default=False)
     except (OSError, TimeoutError) as exc:
         raise ScanError(f"cannot reach the Dask scheduler at {scheduler}: {_one_line(exc)}") from None
     try:
@@ -409,7 +394,7 @@ def scan(model, omegas, *, out=None, workers=None, scheduler=None, progress=None
             if bar is not None:
                 bar.update(1)
 
-        put = _Ordered(sink, len(todo)).put
+        put = _Ordered(sink).put
         record = on_error == "record"
         try:
             if scheduler is not None:
@@ -429,7 +414,6 @@ def scan(model, omegas, *, out=None, workers=None, scheduler=None, progress=None
 
 
 def _bar(progress, *, total, initial):
-    import sys
     if progress is None:
         progress = hasattr(sys.stderr, "isatty") and sys.stderr.isatty()
     if not progress:
@@ -456,8 +440,7 @@ def write_json(result, path, *, metadata=None):
     tmp = f"{path}.tmp{os.getpid()}"
     try:
         with open(tmp, "w", encoding="utf-8") as fh:
-            json.dump(doc, fh, indent=1, allow_nan=False)
-            fh.write("\n")
+            fh.write(json.dumps(doc, indent=1, allow_nan=False) + "\n")
         os.replace(tmp, path)
     finally:
         if os.path.exists(tmp):

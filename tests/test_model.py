@@ -51,11 +51,6 @@ def test_tanh_horizon_and_kappa():
     assert m.kappa == pytest.approx(0.2, abs=1e-12)
 
 
-# brentq(..., rtol=4e-16) in horizon._find_horizon is below scipy's minimum 4*eps = 8.9e-16:
-# whenever the root is not on the search grid it raises ValueError (engine bug reported to the
-# lead; horizon.py is not among the files of this issue).  strict: an XPASS says it was fixed.
-@pytest.mark.xfail(raises=ValueError, strict=True,
-                   reason="horizon._find_horizon calls brentq with rtol=4e-16 < 4*eps (scipy refuses)")
 def test_off_centre_tanh_horizon_and_kappa():
     """v = -1 + 0.3 tanh((x + 2)/2) + 0.1.  v = -1 <=> tanh((x + 2)/2) = -1/3, so
     x_H = -2 - 2 atanh(1/3) (v = +1 would need tanh = 19/3: no second root).

@@ -90,12 +90,23 @@ def test_local_processes_match_serial(tmp_path, nondisp):
     assert [r["omega"] for r in read_table(b)] == ws
 
 
-def test_record_errors_keeps_going():
-    m = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5, D=0.5)   # cut-off omega_max ~ 0.5
-    row = compute_row(m, 0.9, record_errors=True)
-    assert row["success"] is False and row["message"] and row["occupation"] is None
+class _Refuses:
+    """A model whose S-matrix cannot be built at any frequency."""
+
+    def scatter(self, omega, **kw):
+        raise ck.ScatteringError(f"no S-matrix at omega = {omega}")
+
+
+def test_record_errors_keeps_going(tmp_path):
+    row = compute_row(_Refuses(), 0.9, record_errors=True)
+    assert row["success"] is False and "ScatteringError" in row["message"] and row["occupation"] is None
     with pytest.raises(ck.ContourkitError):
-        compute_row(m, 0.9)
+        compute_row(_Refuses(), 0.9)
+    res = scan(_Refuses(), [0.1, 0.2], out=tmp_path / "t.csv", workers=1, on_error="record")
+    assert [r["success"] for r in read_table(tmp_path / "t.csv")] == [False, False] and res.computed == 2
+    with pytest.raises(ck.ScatteringError):
+        scan(_Refuses(), [0.3], out=tmp_path / "t.csv", workers=1)
+    assert len(read_table(tmp_path / "t.csv")) == 2
 
 
 def test_kill_and_resume(tmp_path):
@@ -138,7 +149,7 @@ def test_dask_cluster_gives_the_local_rows(tmp_path):
                           text=True, timeout=240)
     assert done.returncode == 0, done.stderr
     with distributed.LocalCluster(n_workers=1, threads_per_worker=2, processes=False, protocol="tcp",
-                                  dashboard_address=None) as cluster:
+                                  dashboard_address=":0") as cluster:
         remote = tmp_path / "dask.csv"
         proc = subprocess.run(_cli(*args, "--out", remote, "--scheduler", cluster.scheduler_address),
                               env=_env(), capture_output=True, text=True, timeout=240)

@@ -1,5 +1,4 @@
 """The four commands of the ``contourkit`` command line: derive, spectrum, figures, check."""
-import math
 import os
 import pathlib
 
