@@ -12,6 +12,11 @@ from .horizon import HorizonModel
 
 __version__ = "0.1.0"
 
+__all__ = ["ModeEquation", "HorizonModel", "Contour", "load_model", "compare", "catalogue", "direct",
+           "plotting", "scattering", "fourier", "asymptotics", "modes",
+           "ContourkitError", "InputError", "ModelError", "ModelFileError", "HorizonError", "ContourError",
+           "AccuracyError", "ScatteringError", "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning"]
+
 
 def __getattr__(name):
     # Lazy access keeps `import contourkit` light and the layers one-way.

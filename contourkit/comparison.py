@@ -24,10 +24,9 @@ Examples
 >>> round(table.rows[0]["temperature_ratio_direct"], 3)
 1.0
 """
-import csv
-import io
 import math
 
+from .results import RowTable
 from .errors import ContourkitError, InputError
 
 #: per-method fields of a row (each appears as ``<field>_<method>``)
@@ -40,7 +39,7 @@ COLUMNS = (("omega", "omega_over_kappa", "hawking_temperature")
            + tuple(f"{f}_{m}" for m in ("contour", "direct") for f in METHOD_FIELDS) + DIFF_FIELDS)
 
 
-class ComparisonTable:
+class ComparisonTable(RowTable):
     """One row (dict) per frequency; see :data:`COLUMNS` for the fields.
 
     Attributes
@@ -51,41 +50,12 @@ class ComparisonTable:
         ``{"contour": ScatteringResult or None, "direct": ...}`` per row.
     """
 
-    def __init__(self, rows, *, model_name="", results=None):
-        self.rows = list(rows)
-        self.model_name = model_name
-        self.results = list(results or [])
-
     columns = COLUMNS
 
-    def __len__(self):
-        return len(self.rows)
-
-    def __iter__(self):
-        return iter(self.rows)
-
-    def __getitem__(self, i):
-        return self.rows[i]
-
-    def column(self, name):
-        """The values of one column, in row order."""
-        if name not in COLUMNS:
-            raise InputError(f"unknown column {name!r}; the columns are {', '.join(COLUMNS)}")
-        return [r[name] for r in self.rows]
-
-    def to_csv(self, path=None):
-        """Write the table as CSV to ``path`` (or return the CSV text when path is None)."""
-        buf = io.StringIO()
-        w = csv.DictWriter(buf, fieldnames=list(COLUMNS), lineterminator="\n")
-        w.writeheader()
-        for r in self.rows:
-            w.writerow({c: ("" if r[c] is None else r[c]) for c in COLUMNS})
-        text = buf.getvalue()
-        if path is None:
-            return text
-        with open(path, "w", encoding="utf-8", newline="") as fh:
-            fh.write(text)
-        return path
+    def __init__(self, rows, *, model_name="", results=None):
+        super().__init__(rows)
+        self.model_name = model_name
+        self.results = list(results or [])
 
     def __repr__(self):
         return f"ComparisonTable({self.model_name or 'model'}, {len(self.rows)} rows)"

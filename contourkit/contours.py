@@ -168,7 +168,6 @@ def scales(rep, crit):
 def _ray_out(rep, x, start, angle, level, R0):
     """Points from `start` outwards along `angle` until Re Phi < level (logs not needed: far from all)."""
     pts = []
-    r = abs(start) if abs(start) > 0 else R0
     d = cmath.exp(1j * angle)
     t = 0.0
     step = 0.25 * R0

@@ -28,7 +28,7 @@ import numpy as np
 import sympy as sp
 
 from ._sym import I, mp_value
-from .errors import ContourError, InputError, ModelError
+from .errors import ContourError, InputError
 
 K = sp.Symbol("k")
 

@@ -229,7 +229,6 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             r = min(roots, key=lambda z: abs(complex(z) - s))
             rc = complex(r)
             if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
-                xl = x if label_x is None else label_x
                 m = _physical_label(side, rc.real, x, label_x, dd, "saddle")
                 m.k = rc
                 out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1))

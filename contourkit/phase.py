@@ -11,7 +11,6 @@ The branch at the start of a contour is the cut-plane branch: every cut runs
 from k_j in the direction ``cut_angle`` and ``arg(k - k_j)`` is taken in
 ``(cut_angle, cut_angle + 2 pi]``.
 """
-import cmath
 import math
 
 import mpmath

@@ -135,3 +135,52 @@ def pseudo_unitarity_residual(S, eta_out, eta_in):
     S = np.asarray(S, dtype=complex)
     M = S.conj().T @ np.diag(np.asarray(eta_out, dtype=float)) @ S - np.diag(np.asarray(eta_in, dtype=float))
     return float(np.max(np.abs(M)))
+
+
+class RowTable:
+    """A table as a list of dict rows, with the same interface for spectra and comparisons.
+
+    Subclasses set ``columns`` (a tuple of field names) or leave it None to take
+    the keys of the first row.
+    """
+
+    columns = None
+
+    def __init__(self, rows):
+        self.rows = list(rows)
+
+    def __len__(self):
+        return len(self.rows)
+
+    def __iter__(self):
+        return iter(self.rows)
+
+    def __getitem__(self, i):
+        return self.rows[i]
+
+    def _fields(self):
+        return list(self.columns) if self.columns else (list(self.rows[0]) if self.rows else [])
+
+    def column(self, name):
+        """The values of one column, in row order."""
+        from .errors import InputError
+        if name not in self._fields():
+            raise InputError(f"unknown column {name!r}; the columns are {', '.join(self._fields())}")
+        return [r[name] for r in self.rows]
+
+    def to_csv(self, path=None):
+        """The table as CSV text; written to ``path`` when given (then the path is returned)."""
+        import csv
+        import io
+        buf = io.StringIO()
+        keys = self._fields()
+        w = csv.DictWriter(buf, fieldnames=keys, lineterminator="\n")
+        w.writeheader()
+        for r in self.rows:
+            w.writerow({c: ("" if r.get(c) is None else r[c]) for c in keys})
+        text = buf.getvalue()
+        if path is None:
+            return text
+        with open(path, "w", encoding="utf-8", newline="") as fh:
+            fh.write(text)
+        return path

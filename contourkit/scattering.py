@@ -44,7 +44,7 @@ from .bogoliubov import hawking_figures
 from .decompose import coefficient, decompose
 from .errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
 from .modes import DispersionDerivatives, catalogue
-from .results import Mode, ScatteringResult
+from .results import Mode, RowTable, ScatteringResult
 
 
 def _check_omega(omega):
@@ -326,7 +326,7 @@ def _nondispersive(model, rep, w, kappa, dps, user_dps):
                            "exponent (analytic continuation through the upper half x-plane)")
 
 
-class Spectrum:
+class Spectrum(RowTable):
     """Rows of scattering figures, one per frequency.
 
     Attributes
@@ -340,37 +340,12 @@ class Spectrum:
     """
 
     def __init__(self, rows, results):
-        self.rows = rows
+        super().__init__(rows)
         self.results = results
-
-    def __len__(self):
-        return len(self.rows)
-
-    def __iter__(self):
-        return iter(self.rows)
-
-    def __getitem__(self, i):
-        return self.rows[i]
 
     def column(self, key):
         """One column as a numpy array (floats)."""
-        return np.array([float(r[key]) for r in self.rows])
-
-    def to_csv(self, path=None):
-        """The rows as CSV text (written to path if given)."""
-        import csv
-        import io
-        buf = io.StringIO()
-        keys = list(self.rows[0]) if self.rows else []
-        w = csv.DictWriter(buf, fieldnames=keys, lineterminator="\n")
-        w.writeheader()
-        for r in self.rows:
-            w.writerow(r)
-        text = buf.getvalue()
-        if path is not None:
-            with open(path, "w", encoding="utf-8") as fh:
-                fh.write(text)
-        return text
+        return np.array([float(v) for v in super().column(key)])
 
 
 def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False):
