@@ -22,6 +22,7 @@ References
 .. [2] P. J. Davis, P. Rabinowitz, Methods of Numerical Integration, 2nd ed.,
    Academic Press (1984), 2.7 (Gauss rules) (from memory).
 """
+import cmath
 import math
 import warnings
 from dataclasses import dataclass, field
@@ -204,6 +205,10 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
             err += abs(fac) * (ep + em)
         err += math.exp(-u_stop) * scale * 10
         value = total
+        if not (cmath.isfinite(value) and math.isfinite(err)):
+            # e.g. intersection coefficients exp(2 pi i m nu) with |Im nu| ~ 100 overflow
+            raise ContourError(f"the integral at x = {x} overflows double precision (a thimble coefficient or "
+                               f"contribution is not finite); use dps=... for mpmath")
     else:
         with mpmath.workdps(dps + 10):
             data = rep.mp_data(dps)

@@ -5,7 +5,7 @@ import warnings
 import numpy as np
 import pytest
 import sympy as sp
-from hypothesis import HealthCheck, given, settings, strategies as st
+from hypothesis import HealthCheck, Phase, given, settings, strategies as st
 
 import contourkit as ck
 
@@ -59,10 +59,28 @@ def _usable(a, b):
             return None
     if rep.essential_singularities or any(abs(nu - round(nu.real)) < 1e-3 for nu in rep._nu):
         return None
+    # exponents with large |Im nu|: loops carry exp(2 pi |Im nu|) between their legs, which
+    # overflows double precision (refused with a ContourError, see test_overflow_refused) and
+    # makes the basis badly scaled; the generic check uses moderate exponents
+    if any(abs(nu.imag) > 3 for nu in rep._nu):
+        return None
+    # a singular point straight on the valley ray of another one: the default loop legs of
+    # basis() would run through it, and evaluate() refuses with a ContourError (by design: the
+    # side is arbitrary).  A limitation of basis(), reported; not a wrong value.
+    if kj.size > 1:
+        from contourkit.contours import _valley
+        d = np.exp(1j * _valley(rep, 0.4, None).center)
+        for i in range(kj.size):
+            for j in range(kj.size):
+                w = (kj[j] - kj[i]) / d
+                if i != j and w.real > 0 and abs(w.imag) < 1e-6 * abs(w):
+                    return None
     return rep
 
 
-@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=15, deadline=None, derandomize=True, database=None,
+          phases=[Phase.explicit, Phase.generate],  # no shrinking: bounded run time
+          suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
 @given(random_equations())
 def test_basis_solves_random_equations(eqn):
     """Every basis contour gives an exact solution: |L phi| <= 1e-9 max_n |(a_n + b_n x) phi^(n)|.
@@ -89,7 +107,9 @@ def test_basis_solves_random_equations(eqn):
                 assert abs(sum(terms)) <= 1e-9 * size, (a, b, x, j)
                 W[:, j] = d[:n]
         Wn = W / np.linalg.norm(W, axis=0)
-        assert np.linalg.cond(Wn) < 1e8, (a, b, x)
+        # loops scale like exp(2 pi |Im nu|) against each other: allow that spread on top
+        bound = 1e8 * float(np.prod([math.exp(2 * math.pi * abs(nu.imag)) for nu in rep._nu]))
+        assert np.linalg.cond(Wn) < bound, (a, b, x)
 
 
 def test_basis_sizes():
@@ -202,3 +222,34 @@ def test_loop_through_another_singular_point():
         rep = _rep(X * Y(X).diff(X, 2) + (b - X) * Y(X).diff(X) - a * Y(X))
         with pytest.raises(ck.ContourError, match="would run through the singular point"):
             rep.evaluate(ck.Contour.loop(-sp.I), 1.0)
+
+
+# ---------------------------------------------------------------------------- engine bugs found
+# Shrunk by hypothesis from the property test above (random ODEs), reported to the lead; strict
+# xfail: an XPASS means the bug was fixed and the marker should go.
+@pytest.mark.xfail(raises=ck.AccuracyError, strict=True,
+                   reason="steepest-ascent arm stalls next to the saddle (paths.trace_arm)")
+def test_bug_ascent_path_stalls():
+    """y'' + 0.5 y' + 2 x y - i x y' = 0 at x = 0.4 (a = [0, 0.5, 1], b = [2, -i, 0])."""
+    rep = ck.ModeEquation.from_coefficients([0, 0.5, 1], [2, -1j, 0]).fourier()
+    for c in rep.basis():
+        rep.evaluate(c, 0.4)
+
+
+def test_overflow_refused():
+    """Found by the property test: a = [-i, 0, 0, -2], b = [i, 1, 0, 0.05] has exponents
+    -1 +- 94 i; the loop around 4.9067 used to return nan + nan j in double precision."""
+    rep = ck.ModeEquation.from_coefficients([-1j, 0, 0, -2], [1j, 1, 0, 0.05]).fourier()
+    with pytest.raises(ck.ContourError, match="overflows double precision"):
+        rep.evaluate(rep.basis()[2], 0.4)
+
+
+@pytest.mark.xfail(strict=True, reason="the two basis contours give the same function (decompose.py)")
+def test_bug_basis_dependent():
+    """y'' + 2 x y - i x y' = 0 (a = [0, 0, 1], b = [2, -i, 0]): B = 2 + k, one branch point at
+    -2 and two valleys; between(0, 1) and loop(-2) must be independent, but at x = 0.4 they
+    give identical values (Wronskian-matrix condition number 2.5e11)."""
+    rep = ck.ModeEquation.from_coefficients([0, 0, 1], [2, -1j, 0]).fourier()
+    c1, c2 = rep.basis()
+    W = np.array([[complex(rep.evaluate(c, 0.4, derivative=n)) for c in (c1, c2)] for n in (0, 1)])
+    assert np.linalg.cond(W / np.linalg.norm(W, axis=0)) < 1e8
