@@ -51,7 +51,16 @@ class MpValue(mpmath.mpc):
 
 
 class ArrayValue(np.ndarray):
-    """An array of values with attributes error (array), dps, success, message, evaluations."""
+    """An array of values with attributes error (array), dps, success, message, evaluations.
+
+    Arrays derived from it by arithmetic keep dps, success, message and
+    evaluations; their ``error`` is None (it no longer refers to them).
+    """
+
+    def __array_finalize__(self, obj):
+        for a in ("dps", "success", "message", "evaluations"):
+            setattr(self, a, getattr(obj, a, None))
+        self.error = None
 
 
 @dataclass
@@ -275,6 +284,8 @@ def evaluate(rep, contour, x, *, derivative=0, dps=None, rtol=None, full_output=
     if not scalar and np.iscomplexobj(np.asarray(x)):
         raise InputError("x must be real")
     xs = [x] if scalar else list(np.asarray(x, dtype=float).ravel())
+    if not scalar and dps is None and not full_output and len(xs) > 1:
+        return _evaluate_array(rep, contour, x, xs, derivative, rtol)
     res = [integrate(rep, contour, xv, derivative=derivative, dps=dps, rtol=rtol) for xv in xs]
     if full_output:
         return res[0] if scalar else res
@@ -300,4 +311,31 @@ def evaluate(rep, contour, x, *, derivative=0, dps=None, rtol=None, full_output=
     arr.success = all(r.success for r in res)
     arr.message = "converged" if arr.success else "; ".join(r.message for r in res if not r.success)
     arr.evaluations = sum(r.evaluations for r in res)
+    return arr
+
+
+def _evaluate_array(rep, contour, x, xs, derivative, rtol):
+    """Array path (double precision): geometry reused across nearby x (see batch.py)."""
+    from .batch import evaluate_many
+    if not isinstance(contour, Contour):
+        raise ContourError(f"expected a contourkit Contour, got {contour!r}")
+    if contour.owner is not None and contour.owner is not rep:
+        raise ContourError("this contour belongs to another k-space representation; build contours for this "
+                           "one with rep.basis() or the Contour constructors")
+    if isinstance(derivative, bool) or not isinstance(derivative, (int, np.integer)) or derivative < 0:
+        raise InputError(f"derivative must be a non-negative integer, got {derivative!r}")
+    for xv in xs:
+        check_x(xv)
+    rtol = 1e-11 if rtol is None else rtol
+    u_stop = math.log(10) * 19 + 5
+    vals, errs, ok, evals = evaluate_many(rep, contour, xs, derivative=derivative, u_stop=u_stop, rtol=rtol)
+    arr = vals.reshape(np.shape(x)).view(ArrayValue)
+    arr.error = errs.reshape(np.shape(x))
+    arr.dps = None
+    arr.success = bool(ok.all())
+    arr.message = "converged" if arr.success else f"{int((~ok).sum())} point(s) below the requested accuracy"
+    arr.evaluations = int(evals)
+    if not arr.success:
+        warnings.warn(f"contour integral at accuracy below the request: {arr.message}", AccuracyWarning,
+                      stacklevel=3)
     return arr
