@@ -245,6 +245,14 @@ class HorizonModel:
                                f"the exterior at x > 0 needs a positive slope: reflect the profile (x -> -x)")
         return val.real
 
+    def __getstate__(self):
+        # caches hold lambdified functions (not picklable); workers rebuild them
+        state = dict(self.__dict__)
+        for key in ("_eq_cache", "_dDdw_cache", "_direct_cache"):
+            state.pop(key, None)
+        state["_eq_cache"] = {}
+        return state
+
     @property
     def omega_max(self):
         """Cut-off frequency of the dispersive branches in the asymptotic regions (None if none).

@@ -195,7 +195,8 @@ def scatter(model, omega, *, dps=None):
     in_modes, out_modes, grow, S, resid, fig, lost = cur
     S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
     return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, work,
-                   extra={"S_mp": S, "x_exterior": sides[0][0], "x_interior": sides[1][0],
+                   extra={"S_mp": [[S[i, j] for j in range(S.cols)] for i in range(S.rows)],
+                          "x_exterior": sides[0][0], "x_interior": sides[1][0],
                           "digits_lost": lost, "growing": grow, "target_digits": target})
 
 
@@ -348,7 +349,12 @@ class Spectrum(RowTable):
         return np.array([float(v) for v in super().column(key)])
 
 
-def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False):
+def _scatter_one(args):
+    model, w, digits = args
+    return scatter(model, w, dps=digits)
+
+
+def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1):
     """Scattering figures over frequencies, correct also for exponentially small |beta|^2.
 
     Each frequency is computed by :func:`scatter`, whose working precision is
@@ -362,6 +368,8 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False):
     rtol : float, relative accuracy requested for thermal_ratio and occupation
     dps : int, optional, number of correct digits (overrides rtol)
     progress : bool, show a progress bar (tqdm, if installed)
+    workers : int, number of local processes (default 1; for resumable and
+        cluster scans use :func:`contourkit.scan.scan`)
 
     Returns
     -------
@@ -390,9 +398,17 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False):
             it = tqdm(ws, desc="spectrum", unit="omega")
         except ImportError:  # pragma: no cover
             pass
+    if isinstance(workers, bool) or not isinstance(workers, (int, np.integer)) or workers < 1:
+        raise InputError(f"workers must be a positive integer, got {workers!r}")
+    if workers > 1 and len(ws) > 1:
+        from concurrent.futures import ProcessPoolExecutor
+        with ProcessPoolExecutor(max_workers=min(int(workers), len(ws))) as pool:
+            done = list(pool.map(_scatter_one, [(model, w, digits) for w in ws]))
+    else:
+        done = None
     rows, results = [], []
-    for w in it:
-        res = scatter(model, w, dps=digits)
+    for i, w in enumerate(it):
+        res = done[i] if done is not None else scatter(model, w, dps=digits)
         row = res.as_row()
         row["dps"] = res.dps
         row["message"] = res.message

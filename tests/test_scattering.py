@@ -185,3 +185,15 @@ def test_scatter_refuses_a_bare_equation():
     eq = ck.ModeEquation.from_ode(y(X).diff(X, 2) - X * y(X), y, X)
     with pytest.raises(ck.InputError, match="horizon model"):
         scatter(eq, 1.0)
+
+
+def test_spectrum_in_parallel_gives_the_same_rows():
+    # the same computation in worker processes (common practice: parallelism must not change results)
+    m = ck.catalogue.quartic_flow(kappa=KAPPA, Lambda=LAMBDA)
+    m.scatter(0.03)                       # caches must not break pickling to workers
+    ws = [0.02, 0.04, 0.06]
+    a = m.spectrum(ws)
+    b = m.spectrum(ws, workers=2)
+    assert [r["thermal_ratio"] for r in a] == [r["thermal_ratio"] for r in b]
+    with pytest.raises(ck.InputError, match="workers"):
+        m.spectrum(ws, workers=0)

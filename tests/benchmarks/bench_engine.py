@@ -160,17 +160,18 @@ def main():
         f"Max error / max(|Ai|, M): {err_a:.2g}. Ratio per point (medians): **{ratio_s:.3g}x** scipy. "
         f"Expectation within 200x: **{'met' if ratio_s <= 200 else 'NOT met'}**.",
         "",
-        "What dominates (cProfile, 50 cold points, cumulative, contourkit frames):",
+        "The array path (batch.py) traces the steepest-descent geometry at one x, reuses those paths "
+        "for the following x while the two Gauss rules agree to 1e-13 of the value and the path ends "
+        "stay negligible, and sums the integrand for a block of x as one matrix product; a fresh "
+        "geometry is traced where the check fails. One-point calls trace the geometry every time "
+        "(profile of 50 single-point calls, cumulative, contourkit frames):",
         "",
         "```",
         *[ln.strip() for ln in top],
         "```",
         "",
-        "Every array point is an independent contour integral: the steepest-descent geometry "
-        "(critical points, traced thimbles and dual paths, intersection numbers) is rebuilt per x "
-        "in Python, then ~4000 integrand values are summed with numpy. scipy.special.airy is a "
-        "compiled series/asymptotic evaluation of one function, so the comparison bounds the "
-        "overhead of the general method; the engine was not tuned for this benchmark.",
+        "scipy.special.airy is a compiled evaluation of one function, so the comparison bounds the "
+        "overhead of the general method.",
         END,
     ]
     section = "\n".join(lines)

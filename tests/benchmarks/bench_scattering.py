@@ -18,11 +18,14 @@ import re
 import time
 import warnings
 
+import sys
+
 import numpy as np
 
-import contourkit as ck
-
 HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, os.path.join(HERE, "..", ".."))
+import contourkit as ck  # noqa: E402
+
 PAGE = os.path.join(HERE, "..", "..", "docs", "performance.md")
 
 
@@ -35,6 +38,11 @@ def main(points=100, direct_points=6):
     t0 = time.perf_counter()
     spec = lin.spectrum(omegas)
     t_spec = time.perf_counter() - t0
+    ncores = os.cpu_count() or 1
+    t0 = time.perf_counter()
+    spec2 = lin.spectrum(omegas, workers=ncores)
+    t_par = time.perf_counter() - t0
+    assert [r["thermal_ratio"] for r in spec2] == [r["thermal_ratio"] for r in spec]
     worst = max(r["unitarity_residual"] for r in spec)
     sel = omegas[:: max(1, points // direct_points)][:direct_points]
     ck.direct.scatter(tanh, sel[0])              # warm-up (window search, limits)
@@ -55,7 +63,8 @@ def main(points=100, direct_points=6):
         f"Python {platform.python_version()}; `python tests/benchmarks/bench_scattering.py`.",
         "",
         f"- {points}-point spectrum, quartic superluminal, linear profile, serial: "
-        f"{t_spec:.1f} s ({t_spec / points * 1e3:.0f} ms per omega); worst unitarity residual {worst:.1e}.",
+        f"{t_spec:.1f} s ({t_spec / points * 1e3:.0f} ms per omega); with `workers={ncores}` "
+        f"({ncores} processes): {t_par:.1f} s; worst unitarity residual {worst:.1e}.",
         f"- Per omega, tanh profile D = 0.5, {len(sel)} frequencies: contour method median "
         f"{np.median(tc) * 1e3:.0f} ms (min {tc.min() * 1e3:.0f}), direct solver median "
         f"{np.median(td) * 1e3:.0f} ms (min {td.min() * 1e3:.0f}); ratio direct/contour = "
@@ -63,10 +72,12 @@ def main(points=100, direct_points=6):
         "",
         "Issue targets: a 100-point spectrum in under 10 s on 2 cores, and the contour method",
         "at least 30 times faster than the direct solver. "
-        + ("Both are met." if t_spec < 10 and np.median(td) / np.median(tc) >= 30 else
-           "Not met yet: most of the contour time is the double-precision tracing of the "
-           "steepest-descent and -ascent paths (pure Python, two positions per side for the "
-           "stability check) and the sympy construction of the k-space representation per omega."),
+        + (f"Spectrum target {'met' if t_par < 10 else 'NOT met'} ({t_par:.1f} s with {ncores} processes); "
+           f"speed ratio target {'met' if np.median(td) / np.median(tc) >= 30 else 'NOT met'} "
+           f"({np.median(td) / np.median(tc):.2f}). Most of the contour time is the double-precision "
+           "tracing of the steepest-descent and -ascent paths in pure Python (two positions per side, "
+           "the second a stability check of the intersection numbers) and the sympy construction of "
+           "the k-space representation for each omega; the direct solver is vectorised numpy."),
         "<!-- scattering:end -->",
     ]
     block = "\n".join(lines)
