@@ -36,10 +36,7 @@ from .decompose import coefficient, decompose
 from .errors import AccuracyWarning, ContourError, InputError
 from .saddles import check_x
 
-_GL16 = np.polynomial.legendre.leggauss(16)
-_GL10 = np.polynomial.legendre.leggauss(10)
 _LAG = np.polynomial.laguerre.laggauss(40)
-_LAG_W = _LAG[1]
 
 
 class Value(complex):
@@ -89,42 +86,22 @@ class Integral:
 
 
 def _arm_integral_np(rep, x, arm, logs_sigma, phi_sigma, n):
-    """Integral along an arm (traced outward) of (ik)^n exp(Phi - Phi_sigma), two rules."""
-    k0 = arm.k[:-1]
-    k1 = arm.k[1:]
-    L0 = arm.logs[:-1]
-    tot = []
+    """Integral along an arm (traced outward) of (ik)^n exp(Phi - Phi_sigma), two rules.
+
+    The nodes (both Gauss-Legendre rules, plus the Gauss-Laguerre log-spiral
+    tail at a sink) are those of :func:`contourkit.batch._arm_nodes`.
+    """
+    from .batch import _arm_nodes
+    nodes, _ = _arm_nodes(rep, arm, 1.0)
+    tot = {}
     evals = 0
-    for t, w in (_GL16, _GL10):
-        nodes = 0.5 * (k0[:, None] + k1[:, None]) + 0.5 * (k1 - k0)[:, None] * t[None, :]
-        if rep._kj.size:
-            lg = phase.continue_logs(rep, k0[:, None], L0[:, None, :], nodes)
-        else:
-            lg = np.zeros(nodes.shape + (0,), complex)
-        val = np.exp(phase.phi(rep, x, nodes, lg) - phi_sigma)
+    for rule, (K, W, E) in nodes.items():
+        val = np.exp(1j * x * K + E - phi_sigma) * W
         if n:
-            val = val * (1j * nodes) ** n
-        tot.append(np.sum(val * w[None, :] * 0.5 * (k1 - k0)[:, None]))
-        evals += nodes.size
-    I16, I10 = tot
-    if arm.end == "sink":
-        j = arm.sink
-        kj, nu = rep._kj[j], rep._nu[j]
-        ke, le = arm.k[-1], arm.logs[-1]
-        tau, wl = _LAG
-        wj = le[j] - tau / (nu + 1)
-        nodes = kj + np.exp(wj)
-        lg = phase.continue_logs(rep, ke, le, nodes)
-        lg[:, j] = wj
-        # integrand: exp(Phi) dk, dk = e^w dw, dw = -dtau/(nu+1); times e^{tau} for the Laguerre weight
-        val = np.exp(phase.phi(rep, x, nodes, lg) - phi_sigma + wj + tau) * (-1.0 / (nu + 1))
-        if n:
-            val = val * (1j * nodes) ** n
-        tail = np.sum(val * wl)         # from k_e into k_j
-        I16 += tail
-        I10 += tail
-        evals += len(tau)
-    return I16, abs(I16 - I10), evals
+            val = val * (1j * K) ** n
+        tot[rule] = np.sum(val)
+        evals += K.size
+    return tot[16], abs(tot[16] - tot[10]), evals
 
 
 def _arm_integral_mp(rep, x, arm, phi_sigma, n, dps, data, logs_sigma):
