@@ -21,16 +21,6 @@ X = sp.Symbol("x")
 y = sp.Function("y")
 
 
-@pytest.fixture(scope="module")
-def airy_rep():
-    return ck.ModeEquation.from_ode(y(X).diff(X, 2) - X * y(X), y, X).fourier()
-
-
-@pytest.fixture(scope="module")
-def bessel_rep():
-    return ck.ModeEquation.from_ode(X * y(X).diff(X, 2) + y(X).diff(X) + X * y(X), y, X).fourier()
-
-
 def u_closed(n):
     """DLMF 9.7.1: u_k = (2k+1)(2k+3)...(6k-1) / (216^k k!)."""
     return sp.Mul(*range(2 * n + 1, 6 * n, 2)) / (sp.Integer(216) ** n * sp.factorial(n))

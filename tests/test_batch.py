@@ -16,11 +16,6 @@ X = sp.Symbol("x")
 Y = sp.Function("y")
 
 
-@pytest.fixture(scope="module")
-def airy_rep():
-    return ck.ModeEquation.from_ode(Y(X).diff(X, 2) - X * Y(X), Y, X).fourier()
-
-
 def test_airy_array_matches_scipy_and_single_points(airy_rep):
     xs = np.linspace(-30, 10, 301)
     v = airy_rep.evaluate(ck.Contour.real_axis(), xs)

@@ -20,16 +20,6 @@ Y = sp.Function("y")
 TWO_PI = 2 * math.pi
 
 
-@pytest.fixture(scope="module")
-def airy_rep():
-    return ck.ModeEquation.from_ode(Y(X).diff(X, 2) - X * Y(X), Y, X).fourier()
-
-
-@pytest.fixture(scope="module")
-def bessel_rep():
-    return ck.ModeEquation.from_ode(X * Y(X).diff(X, 2) + Y(X).diff(X) + X * Y(X), Y, X).fourier()
-
-
 # ---------------------------------------------------------------------------- Airy
 XS_AIRY = np.linspace(-30.0, 10.0, 81)          # step 0.5, contains 0
 

@@ -13,16 +13,6 @@ X = sp.Symbol("x")
 Y = sp.Function("y")
 
 
-@pytest.fixture(scope="module")
-def airy():
-    return ck.ModeEquation.from_ode(Y(X).diff(X, 2) - X * Y(X), Y, X).fourier()
-
-
-@pytest.fixture(scope="module")
-def bessel():
-    return ck.ModeEquation.from_ode(X * Y(X).diff(X, 2) + Y(X).diff(X) + X * Y(X), Y, X).fourier()
-
-
 @pytest.mark.parametrize("x", [-9.0, -4.0, -0.3, 0.7, 2.5, 100.0])
 def test_airy_saddles_are_local_wavenumbers(airy, x):
     """Weyl symbol of y'' - x y: (ik)^2 - x = -(k^2 + x); roots k = +-sqrt(-x)
