@@ -32,7 +32,7 @@ import warnings
 import numpy as np
 import sympy as sp
 
-from ._sym import I, exact
+from ._sym import I, exact, exact_expr
 from .errors import ContourkitWarning, HorizonError, InputError, ModelError
 from .model import ModeEquation, ode_coefficients
 from .symmetric import from_symmetric, linearise, to_symmetric
@@ -120,7 +120,8 @@ class HorizonModel:
             horizon = self._find_horizon()
         self.horizon = horizon
         self.kappa = self._surface_gravity(horizon)
-        self._lin = [(sp.nsimplify(a) if a.is_number else a, b) for a, b in linearise(self.g, x, horizon)]
+        # exact decimals of any Float (a numerically located horizon), never a guessed rational
+        self._lin = [(exact_expr(a), exact_expr(b)) for a, b in linearise(self.g, x, horizon)]
         self._eq_cache = {}
 
     # -- constructors -------------------------------------------------
@@ -281,7 +282,6 @@ class HorizonModel:
         if key not in self._eq_cache:
             X = self.x
             g_lin = [sp.expand((a + b * X).subs(OMEGA, w)) for a, b in self._lin]
-            g_lin = [exact(sp.nsimplify(v) if v.is_Float else v) if False else v for v in g_lin]
             left = from_symmetric(g_lin, X)
             a = [sp.expand(c).subs(X, 0) for c in left]
             b = [sp.expand(sp.diff(c, X)) for c in left]

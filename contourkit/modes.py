@@ -43,6 +43,7 @@ import numpy as np
 import sympy as sp
 
 from . import phase
+from ._sym import exact, mp_value
 from .errors import ScatteringError
 from .results import Mode
 from .saddles import polish
@@ -83,7 +84,7 @@ class DispersionDerivatives:
             cache = sp.lambdify((K, X, w), sp.diff(Dw, w), "mpmath")
             model._dDdw_cache = cache
         self._dDdw = cache
-        self.omega = mpmath.mpf(sp.Rational(repr(float(omega))).p) / sp.Rational(repr(float(omega))).q
+        self.omega = mp_value(exact(float(omega)), 30)
         s0, s1 = eq.weyl_symbol
         self.s0 = sp.Poly(s0, K)
         self.s1 = sp.Poly(s1, K)
@@ -97,10 +98,8 @@ class DispersionDerivatives:
     def _coeffs(self):
         dps = mpmath.mp.dps
         if dps not in self._mp:
-            c0 = [mpmath.mpc(*(mpmath.mpf(str(sp.N(v, dps + 5))) for v in sp.N(c, dps + 5).as_real_imag()))
-                  for c in self._c0]
-            c1 = [mpmath.mpc(*(mpmath.mpf(str(sp.N(v, dps + 5))) for v in sp.N(c, dps + 5).as_real_imag()))
-                  for c in self._c1]
+            c0 = [mp_value(c, dps) for c in self._c0]
+            c1 = [mp_value(c, dps) for c in self._c1]
             self._mp[dps] = (c0, c1, _polyder(c0), _polyder(c1))
         return self._mp[dps]
 

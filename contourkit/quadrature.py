@@ -147,8 +147,8 @@ def _arm_integral_mp(rep, x, arm, phi_sigma, n, dps, data, logs_sigma):
     return total, err, count[0]
 
 
-def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
-    """One contour integral at one real x, with its error estimate (an :class:`Integral`)."""
+def _check_request(rep, contour, derivative):
+    """Refuse a wrong contour object, a contour of another representation, a bad derivative order."""
     if not isinstance(contour, Contour):
         raise ContourError(f"expected a contourkit Contour, got {contour!r}; build one with Contour.real_axis(), "
                            f"Contour.between(a, b), Contour.loop(point) or rep.basis()")
@@ -157,6 +157,11 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
                            "one with rep.basis() or the Contour constructors")
     if isinstance(derivative, bool) or not isinstance(derivative, (int, np.integer)) or derivative < 0:
         raise InputError(f"derivative must be a non-negative integer, got {derivative!r}")
+
+
+def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
+    """One contour integral at one real x, with its error estimate (an :class:`Integral`)."""
+    _check_request(rep, contour, derivative)
     dps = rep._checked_dps(dps)
     x = check_x(x)
     digits = 16 if dps is None else dps
@@ -294,13 +299,7 @@ def evaluate(rep, contour, x, *, derivative=0, dps=None, rtol=None, full_output=
 def _evaluate_array(rep, contour, x, xs, derivative, rtol):
     """Array path (double precision): geometry reused across nearby x (see batch.py)."""
     from .batch import evaluate_many
-    if not isinstance(contour, Contour):
-        raise ContourError(f"expected a contourkit Contour, got {contour!r}")
-    if contour.owner is not None and contour.owner is not rep:
-        raise ContourError("this contour belongs to another k-space representation; build contours for this "
-                           "one with rep.basis() or the Contour constructors")
-    if isinstance(derivative, bool) or not isinstance(derivative, (int, np.integer)) or derivative < 0:
-        raise InputError(f"derivative must be a non-negative integer, got {derivative!r}")
+    _check_request(rep, contour, derivative)
     for xv in xs:
         check_x(xv)
     rtol = 1e-11 if rtol is None else rtol

@@ -26,7 +26,7 @@ import mpmath
 import numpy as np
 import sympy as sp
 
-from ._sym import mp_value
+from ._sym import exact, mp_value
 from .errors import CoalescenceWarning, InputError
 
 K = sp.Symbol("k")
@@ -74,8 +74,7 @@ def polish(coeffs_mp, roots, dps):
 def dispersion_coefficients(rep, x, dps=30):
     """mpmath coefficients (highest first) of sigma0 + x sigma1."""
     s0, s1 = rep.equation.weyl_symbol
-    poly = sp.Poly(sp.expand(s0 + sp.nsimplify(x, rational=True) * s1) if isinstance(x, float) else
-                   sp.expand(s0 + x * s1), K)
+    poly = sp.Poly(sp.expand(s0 + exact(x) * s1), K)
     return [mp_value(c, dps) for c in poly.all_coeffs()]
 
 
