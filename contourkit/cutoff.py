@@ -102,7 +102,6 @@ def cutoffs(dispersion, *, omega=OMEGA, k=KS, side=None, dps=40):
     Dk = sp.diff(D, k)
     Dw = sp.diff(D, omega)
     fD = sp.lambdify((omega, k), D, "mpmath")
-    fDk = sp.lambdify((omega, k), Dk, "mpmath")
     fDw = sp.lambdify((omega, k), Dw, "mpmath")
     out = []
     with mpmath.workdps(dps):

@@ -4,7 +4,6 @@ import math
 import matplotlib
 import numpy as np
 import sympy as sp
-from matplotlib.lines import Line2D
 
 from ..errors import InputError
 from ..saddles import check_x
@@ -221,7 +220,6 @@ def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
             wrange = (float(fin.min()), float(fin.max()))
         else:
             wrange = (-1.0, 1.0)
-    handles = []
     if omega is not None:
         ax.axhline(omega, color=PALETTE["omega"], lw=0.7, ls=(0, (1, 1.5)), zorder=2, gid="omega-line",
                    label=rf"$\omega = {omega:g}$")
