@@ -17,10 +17,10 @@ normalisation ``|a|^2 |dD/dk| = 1/(2 pi)`` fixes, for each thimble, the
 constant ``c = lim |I_sigma(x)| sqrt(2 pi |dD/dk|)``: the number of unit-flux
 quanta that the thimble carries.  It is computed as an exact limit:
 
-* saddle modes: the leading saddle-point term
-  ``|I| = exp(Re Phi(s)) sqrt(2 pi / |Phi''(s)|)`` evaluated at a position X'
-  so far out that the first correction (``|Phi'''|^2/|Phi''|^3``) is below the
-  working precision (in mpmath; cost independent of X');
+* saddle modes: the limit x -> infinity of the leading saddle-point term
+  ``|I| = exp(Re Phi(s)) sqrt(2 pi / |Phi''(s)|)``, which is closed form:
+  ``c = 2 pi sqrt(exp(2 Re E(k)) |sigma1(k)|)`` at any real k of the stretch
+  (and sheet) the saddle runs along, because that product is constant there;
 * branch modes: with ``z = k - k_b``, the Hankel loop of ``z^nu e^{i x z}``
   entering along the valley direction ``theta`` with ``arg z = alpha`` and
   leaving with ``arg z = alpha + Delta`` (``Delta = +-2 pi``) is
@@ -61,11 +61,15 @@ class ModeData:
     mode : Mode        labels (side, direction, norm, kind, k, group velocity)
     constant : mpf     flux constant c (None for growing/decaying modes)
     branch : int       singular-point index for long-wavelength modes, else -1
+    loop : tuple       (m_in, n) of the Hankel loop of a long-wavelength mode (branch_constant_at)
+    far : Mode         labels at geom.x before the near-horizon relabelling (saddle modes)
     """
     index: int
     mode: Mode
     constant: object
     branch: int
+    loop: tuple = None
+    far: Mode = None
 
 
 class DispersionDerivatives:
@@ -77,13 +81,7 @@ class DispersionDerivatives:
     """
 
     def __init__(self, model, omega, eq):
-        cache = getattr(model, "_dDdw_cache", None)
-        if cache is None:
-            X, w = sp.Symbol("x"), sp.Symbol("omega")
-            Dw = sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin))
-            cache = sp.lambdify((K, X, w), sp.diff(Dw, w), "mpmath")
-            model._dDdw_cache = cache
-        self._dDdw = cache
+        self._dDdw = self.dDdw_function(model)
         self.omega = mp_value(exact(float(omega)), 30)
         s0, s1 = eq.weyl_symbol
         self.s0 = sp.Poly(s0, K)
@@ -94,6 +92,17 @@ class DispersionDerivatives:
         self.s0_np = np.array([complex(c) for c in self._c0])
         self.s1_np = np.array([complex(c) for c in self._c1])
         self._mp = {}
+
+    @staticmethod
+    def dDdw_function(model):
+        """dD/domega of the linearised model as an mpmath function of (k, x, omega), cached on the model."""
+        cache = getattr(model, "_dDdw_cache", None)
+        if cache is None:
+            X, w = sp.Symbol("x"), sp.Symbol("omega")
+            Dw = sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin))
+            cache = sp.lambdify((K, X, w), sp.diff(Dw, w), "mpmath")
+            model._dDdw_cache = cache
+        return cache
 
     def _coeffs(self):
         dps = mpmath.mp.dps
@@ -179,14 +188,15 @@ def _physical_label(side, k, x, label_x, dd, origin):
     where the linear model is still the near-horizon one.  If the root turns
     complex on the way (a turning point: the mode does not reach that far in),
     the labels at the farthest point where it is real before that are used.
+    Returns (labels, far labels).
     """
     far = _label(side, mpmath.mpf(k), x, dd, origin)
     if label_x is None or label_x == x:
-        return far
+        return far, far
     r, xl = _track_root(dd, k, x, label_x)
     near = _label(side, mpmath.mpf(complex(r).real), float(xl), dd, origin)
     # the artefact flips norm and direction together; otherwise the far labels stand
-    return near if near.norm != far.norm else far
+    return (near if near.norm != far.norm else far), far
 
 
 def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
@@ -223,14 +233,15 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             # long-wavelength modes keep the labels of the asymptotic region
             m = _label(side, mpmath.mpf(float(mpmath.re(r))), x, dd, "branch point")
             m.k = complex(kb)
-            out.append(ModeData(i, m, _branch_constant(rep, geom, i, b, dd, dps), b))
+            c, loop = _branch_constant(rep, geom, i, b, dd, dps)
+            out.append(ModeData(i, m, c, b, loop=loop))
         else:
             r = min(roots, key=lambda z: abs(complex(z) - s))
             rc = complex(r)
             if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
-                m = _physical_label(side, rc.real, x, label_x, dd, "saddle")
+                m, far = _physical_label(side, rc.real, x, label_x, dd, "saddle")
                 m.k = rc
-                out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1))
+                out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1, far=far))
             else:
                 kind = "growing" if (rc.imag < 0) == (x > 0) else "decaying"
                 out.append(ModeData(i, Mode(side, "none", 0, kind, rc, origin="saddle", x=x), None, -1))
@@ -261,31 +272,15 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         return arm.logs[int(idx[0])][b].imag if idx.size else None
     a_in, a_out = local_arg(t.minus), local_arg(t.plus)
     with mpmath.workdps(dps + 10):
-        Q, kjm, num, ess = rep.mp_data(dps)
-        data = (Q, kjm, num, ess)
-        nu = num[b]
+        data = rep.mp_data(dps)
+        nu = data[2][b]
         if abs(mpmath.re(nu) + mpmath.mpf(1) / 2) > mpmath.mpf(10) ** (-12):
             raise ScatteringError(f"the exponent {complex(nu):.6g} at {rep.singularities[b].point} has real part "
                                   f"!= -1/2: the model is not formally self-adjoint there and the flux of the "
                                   f"long-wavelength mode is not conserved")
         sig = mpmath.mpc(t.sigma)
         ls = phase.to_mp_logs(t.plus.logs[0], data, sig, t.sigma)
-        kb = kjm[b]
-        lb = phase.continue_logs_mp(data, sig, ls, kb + (sig - kb) * mpmath.mpf(10) ** (-dps))
-        # h(k_b): everything but the (k - k_b)^nu factor and e^{i k_b x} (modulus one for real k_b)
-        logh = (mpmath.polyval(Q, kb) if Q else 0)
-        for j in range(len(kjm)):
-            if j != b:
-                logh += num[j] * lb[j]
-            for p, c in enumerate(ess[j], start=1):
-                logh += c * (kb - kjm[j]) ** (-p)
-        pref = 2 * mpmath.pi * abs(dd.ds1(kb)) * mpmath.exp(2 * mpmath.re(logh)) * abs(mpmath.gamma(nu + 1)) ** 2
-
-        theta_mp = mpmath.pi / 2 if x > 0 else -mpmath.pi / 2
-
-        def c2_of(m_in, delta):
-            alpha = theta_mp + 2 * mpmath.pi * m_in
-            return pref * mpmath.exp(-2 * mpmath.im(nu) * alpha) * abs(mpmath.expj(nu * delta) - 1) ** 2
+        ds1 = abs(dd.ds1(data[1][b]))
 
         if a_in is None or a_out is None:
             # arms that end close to the saddle: their last vertices still show the winding if any
@@ -295,12 +290,12 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         if a_in is not None and a_out is not None:
             m_in = round((a_in - theta) / (2 * math.pi))
             m_out = round((a_out - theta) / (2 * math.pi))
-            delta = 2 * math.pi * (m_out - m_in)
-            if abs(abs(delta) - 2 * math.pi) > 1e-9:
+            if abs(m_out - m_in) != 1:
                 raise ScatteringError(f"the thimble at the branch point {rep.singularities[b].point} does not "
-                                      f"encircle it (winding {delta / (2 * math.pi):.3g}); the geometry at "
+                                      f"encircle it (winding {m_out - m_in}); the geometry at "
                                       f"x = {x} is not asymptotic yet")
-            return mpmath.sqrt(c2_of(m_in, 2 * mpmath.pi * (m_out - m_in)))
+            loop = (m_in, m_out - m_in)
+            return branch_constant_at(data, b, sig, ls, ds1, x, loop), loop
         # saddle-point estimate of the same thimble at x: |I| sqrt(2 pi |dD/dk|)
         xm = mpmath.mpf(x)
         Phi = phase.phi_mp(data, xm, sig, ls)
@@ -309,9 +304,9 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         m0 = round((float(mpmath.im(ls[b])) - theta) / (2 * math.pi))
         cands = []
         for m_in in range(m0 - 2, m0 + 3):
-            for delta in (2 * mpmath.pi, -2 * mpmath.pi):
-                c2 = c2_of(m_in, delta)
-                cands.append((abs(float(mpmath.log(c2 / est))), c2))
+            for n in (1, -1):
+                c = branch_constant_at(data, b, sig, ls, ds1, x, (m_in, n))
+                cands.append((abs(float(mpmath.log(c ** 2 / est))), c, (m_in, n)))
         cands.sort(key=lambda c: c[0])
         # (m, +2 pi) and (m + 1, -2 pi) are the same loop: keep distinct values only
         uniq = []
@@ -322,37 +317,59 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         if cands[0][0] > 0.5 or (len(cands) > 1 and cands[1][0] - cands[0][0] < 3):
             raise ScatteringError(f"could not identify the loop of the long-wavelength mode at "
                                   f"{rep.singularities[b].point} (exponent {complex(nu):.4g}) at x = {x}")
-        return mpmath.sqrt(cands[0][1])
+        return cands[0][1], cands[0][2]
+
+
+def branch_constant_at(data, b, sig, ls, ds1, x, loop):
+    """Flux constant of the Hankel loop at singular point b (module docstring), in mpmath.
+
+    data : (Q, kj, nu, ess) at the working precision; sig, ls : a point near
+    k_b and the logs there (the sheet); ds1 : |sigma1'(k_b)|; x : position
+    (its sign gives the valley direction theta = +-pi/2); loop : (m_in, n)
+    with entry argument alpha = theta + 2 pi m_in and winding Delta = 2 pi n.
+    """
+    Q, kjm, num, ess = data
+    nu, kb = num[b], kjm[b]
+    lb = phase.continue_logs_mp(data, sig, ls, kb + (sig - kb) * mpmath.eps)
+    # h(k_b): everything but the (k - k_b)^nu factor and e^{i k_b x} (modulus one for real k_b)
+    logh = (mpmath.polyval(Q, kb) if Q else 0)
+    for j in range(len(kjm)):
+        if j != b:
+            logh += num[j] * lb[j]
+        for p, c in enumerate(ess[j], start=1):
+            logh += c * (kb - kjm[j]) ** (-p)
+    pref = 2 * mpmath.pi * ds1 * mpmath.exp(2 * mpmath.re(logh)) * abs(mpmath.gamma(nu + 1)) ** 2
+    alpha = (mpmath.pi / 2 if x > 0 else -mpmath.pi / 2) + 2 * mpmath.pi * loop[0]
+    c2 = pref * mpmath.exp(-2 * mpmath.im(nu) * alpha) * abs(mpmath.expj(2 * mpmath.pi * nu * loop[1]) - 1) ** 2
+    return mpmath.sqrt(c2)
 
 
 def _saddle_constant(rep, geom, i, dd, dps):
-    """Flux constant of a propagating saddle mode: the leading term pushed to X' -> infinity."""
+    """Flux constant of a propagating saddle mode, in closed form.
+
+    With ``E' = i sigma0/sigma1 - sigma1'/(2 sigma1)`` (fourier.py, Weyl form),
+    ``F(k) = exp(2 Re E(k)) |sigma1(k)|`` has ``d ln F/dk = 2 Re(i sigma0/sigma1) = 0``
+    on real stretches free of singular points (sigma0, sigma1 real there), so F
+    is constant along the stretch and on the sheet that the thimble's saddle
+    sits on.  As x -> infinity the saddle runs along that stretch, ``Phi''`` tends
+    to ``-i dx/dk = i (dD/dk)/sigma1`` on the root of D = 0, and the leading
+    saddle term gives ``c^2 = |I|^2 2 pi |dD/dk| -> (2 pi)^2 F``: the exact
+    large-x limit, read off at the real point below the saddle.
+    """
     t = geom.thimbles[i]
-    x0 = geom.x
     with mpmath.workdps(dps + 15):
         data = rep.mp_data(dps + 5)
         s = mpmath.mpc(t.sigma)
         logs = phase.to_mp_logs(t.plus.logs[0], data, s, t.sigma)
-        x = mpmath.mpf(x0)
-        target = mpmath.mpf(10) ** (-(dps + 2))
-        for _ in range(200):
-            f2, f3 = _phi_derivs(data, x, s)
-            if abs(f3) ** 2 / abs(f2) ** 3 < target:
-                break
-            xn = x * 10000
-            # continue the critical point: scale guess from the local balance, then Newton on Phi'
-            q = rep.degree_Q
-            guess = s * (mpmath.mpf(10000) ** (mpmath.mpf(1) / (q - 1)) if q >= 2 else 1)
-            sn = _newton_crit(data, xn, guess, dps + 10)
-            logs = phase.continue_logs_mp(data, s, logs, sn)
-            s, x = sn, xn
-        else:
-            raise ScatteringError("the saddle-point limit did not converge for a dispersive mode")
-        Phi = phase.phi_mp(data, x, s, logs)
-        f2, _ = _phi_derivs(data, x, s)
-        I2 = mpmath.exp(2 * mpmath.re(Phi)) * 2 * mpmath.pi / abs(f2)
-        c2 = I2 * 2 * mpmath.pi * abs(dd.dDdk(s, x))
-        return mpmath.sqrt(c2)
+        return saddle_constant_at(data, dd._coeffs()[1], s, logs)
+
+
+def saddle_constant_at(data, s1, s, logs):
+    """``2 pi sqrt(F)`` at the real point below the saddle s (logs: its branch at s); see _saddle_constant."""
+    kr = mpmath.mpf(mpmath.re(s))
+    lr = phase.continue_logs_mp(data, s, logs, kr)
+    E = phase.phi_mp(data, 0, kr, lr)
+    return 2 * mpmath.pi * mpmath.sqrt(mpmath.exp(2 * mpmath.re(E)) * abs(mpmath.polyval(s1, kr)))
 
 
 def _phi_derivs(data, x, k):
@@ -372,21 +389,3 @@ def _phi_derivs(data, x, k):
 def _polyder(c):
     n = len(c) - 1
     return [c[i] * (n - i) for i in range(n)] if n > 0 else [mpmath.mpf(0)]
-
-
-def _newton_crit(data, x, k, dps):
-    Q, kj, nu, ess = data
-    Qp = _polyder(Q) if Q else [mpmath.mpf(0)]
-    for _ in range(200):
-        f1 = mpmath.j * x + mpmath.polyval(Qp, k)
-        for j in range(len(kj)):
-            z = k - kj[j]
-            f1 += nu[j] / z
-            for p, c in enumerate(ess[j], start=1):
-                f1 -= p * c * z ** (-p - 1)
-        f2, _ = _phi_derivs(data, x, k)
-        step = f1 / f2
-        k = k - step
-        if abs(step) < mpmath.mpf(10) ** (-dps) * abs(k):
-            return k
-    raise ScatteringError("Newton's method for a critical point did not converge")

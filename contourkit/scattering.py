@@ -157,22 +157,61 @@ def scatter(model, omega, *, dps=None):
     >>> res.unitarity_residual < 1e-10
     True
     """
-    from .horizon import HorizonModel
-    if not isinstance(model, HorizonModel):
-        raise InputError(f"scatter needs a horizon model (catalogue, model file or HorizonModel), got "
-                         f"{type(model).__name__}; for a bare ModeEquation use rep.evaluate, "
-                         f"contourkit.modes or contourkit.scattering.continuation_ratio")
+    return _scatter(model, omega, dps, None)
+
+
+def _prepare(model, omega, dps):
+    """Checked frequency and target digits; warns above the full profile's cut-off."""
     w = _check_omega(omega)
     wmax = model.omega_max if getattr(model, "flow_D", None) is not None else None
     if wmax is not None and w >= wmax:
         warnings.warn(f"omega = {w} is at or above the cut-off omega_max = {wmax:.6g} of the full profile: "
                       f"dispersive branches coalesce there and the near-horizon result no longer describes "
                       f"the flow; use contourkit.direct.scatter for the full profile", ContourkitWarning,
-                      stacklevel=2)
-    user_dps = dps
+                      stacklevel=4)
     if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1):
         raise InputError(f"dps must be a positive integer, got {dps!r}")
-    target = int(dps) if dps is not None else 16
+    return w, (int(dps) if dps is not None else 16)
+
+
+def _continued(model, family, state, omega, dps, geometry=None):
+    """scatter() at omega from a state traced at a nearby frequency (sweep.follow); raises Lost."""
+    from .sweep import Lost, follow
+    w, target = _prepare(model, omega, dps)
+    frame, new, constants = follow(family, state, w)
+    n_c = len(state["terms"])
+    extra = {"x_exterior": new["sides"][0].X, "x_interior": new["sides"][1].X,
+             "geometry": geometry or f"continued from omega = {state['omega']:.17g}"}
+    if target <= 10:
+        from . import fastpath
+        ef = fastpath.ExtFrame(frame)
+        data = [fastpath.side_data(frame, ef, side, state["terms"]) for side in new["sides"]]
+        out = fastpath.assemble(model, data, n_c, w, 10.0 ** (-target)) if None not in data else None
+        if out is not None and out[4] < 1e-11:
+            in_modes, out_modes, grow, S, resid, fig, bound = out
+            new["omega"] = w
+            return _result(w, in_modes, out_modes, S, resid, fig, float(model.kappa), dps, fastpath.DIGITS,
+                           extra=dict(extra, arithmetic="numpy extended precision", growing=grow,
+                                      target_digits=target), error=max(resid, bound)), new
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("error", AccuracyWarning)
+            res = _finish(model, constants, n_c, w, target, float(model.kappa), dps, extra)
+    except (ScatteringError, AccuracyWarning, ZeroDivisionError) as e:
+        raise Lost(str(e))
+    new["omega"] = w
+    return res, new
+
+
+def _scatter(model, omega, dps, keep):
+    """scatter(); with a dict ``keep``, the traced geometry is left in keep["state"] for sweep.follow."""
+    from .horizon import HorizonModel
+    if not isinstance(model, HorizonModel):
+        raise InputError(f"scatter needs a horizon model (catalogue, model file or HorizonModel), got "
+                         f"{type(model).__name__}; for a bare ModeEquation use rep.evaluate, "
+                         f"contourkit.modes or contourkit.scattering.continuation_ratio")
+    w, target = _prepare(model, omega, dps)
+    user_dps = dps
     eq = model.mode_equation(w)
     rep = eq.fourier()
     kappa = float(model.kappa)
@@ -181,10 +220,53 @@ def scatter(model, omega, *, dps=None):
     contours = rep.basis()
     dd = DispersionDerivatives(model, w, eq)
     sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
+    if keep is not None and target <= 10:
+        # a spectrum at modest accuracy: labels once, then the fast arithmetic of sweep/fastpath
+        from .sweep import Family, Lost
+        mods = [_side_constants(rep, contours, dd, sd, target + 10)[0] for sd in sides]
+        state = _state(rep, contours, sides, mods)
+        if state is not None:
+            state["omega"] = w
+            try:
+                if keep.get("family") is None:
+                    keep["family"] = Family(model)
+                res, keep["state"] = _continued(model, keep["family"], state, w, user_dps, geometry="traced")
+                return res
+            except Lost:
+                pass
+    last = {}
+
+    def constants(d):
+        last["e"] = _side_constants(rep, contours, dd, sides[0], d)
+        last["i"] = _side_constants(rep, contours, dd, sides[1], d)
+        return (*last["e"], *last["i"])
+    res = _finish(model, constants, len(contours), w, target, kappa, user_dps,
+                  {"x_exterior": sides[0][0], "x_interior": sides[1][0], "geometry": "traced"})
+    if keep is not None:
+        keep["state"] = _state(rep, contours, sides, (last["e"][0], last["i"][0]))
+        if keep["state"] is not None:
+            keep["state"]["omega"] = w
+    return res
+
+
+def _state(rep, contours, sides, mods):
+    """The traced geometry in the form that sweep.follow continues in omega (None if it cannot)."""
+    from .sweep import SideState
+    if any(kind == "half" for C in contours for _, kind, _ in C.terms) or any(e.size for e in rep._ess):
+        return None
+    out = []
+    for (X, g0, coeffs, lab), md in zip(sides, mods):
+        out.append(SideState(X, g0.xg, [t.sigma for t in g0.thimbles], [t.plus.logs[0] for t in g0.thimbles],
+                             md, coeffs, lab))
+    return {"kj": rep._kj.copy(), "q0": rep._Q[0], "sides": out, "terms": [C.terms for C in contours]}
+
+
+def _finish(model, constants, n_c, w, target, kappa, user_dps, extra):
+    """Escalate the working precision until two agree, then build the result."""
     work = target + 10
     prev = None
     for _ in range(8):
-        cur = _assemble(model, rep, contours, dd, sides, w, work)
+        cur = _assemble(model, constants, n_c, w, work)
         if prev is not None and _settled(prev, cur, target, work):
             break
         prev = cur
@@ -195,9 +277,8 @@ def scatter(model, omega, *, dps=None):
     in_modes, out_modes, grow, S, resid, fig, lost = cur
     S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
     return _result(w, in_modes, out_modes, S_np, float(resid), fig, kappa, user_dps, work,
-                   extra={"S_mp": [[S[i, j] for j in range(S.cols)] for i in range(S.rows)],
-                          "x_exterior": sides[0][0], "x_interior": sides[1][0],
-                          "digits_lost": lost, "growing": grow, "target_digits": target})
+                   extra=dict(extra, S_mp=[[S[i, j] for j in range(S.cols)] for i in range(S.rows)],
+                              digits_lost=lost, growing=grow, target_digits=target))
 
 
 def _settled(prev, cur, target, work):
@@ -214,15 +295,13 @@ def _settled(prev, cur, target, work):
                    for i in range(Sb.rows) for j in range(Sb.cols))
 
 
-def _assemble(model, rep, contours, dd, sides, w, dps):
-    """Modes, S-matrix and figures at working precision dps."""
-    mod_e, Ne = _side_constants(rep, contours, dd, sides[0], dps)
-    mod_i, Ni = _side_constants(rep, contours, dd, sides[1], dps)
+def _assemble(model, constants, n_c, w, dps):
+    """Modes, S-matrix and figures at working precision dps; constants(dps) -> (modes_e, N_e, modes_i, N_i)."""
+    mod_e, Ne, mod_i, Ni = constants(dps)
     rows = [(md, Ne) for md in mod_e] + [(md, Ni) for md in mod_i]
     ins = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "in"]
     outs = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
     grow = [(md, N) for md, N in rows if md.mode.kind == "growing"]
-    n_c = len(contours)
     if len(ins) + len(grow) != n_c:
         raise ScatteringError(f"mode counting does not close: {len(ins)} in-modes and {len(grow)} growing modes "
                               f"for {n_c} independent solutions at omega = {w}; is omega beyond a cut-off "
@@ -282,9 +361,11 @@ def _solve_equilibrated(A, rhs):
     return Y
 
 
-def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, message=""):
+def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, message="", error=None):
     def conv(v):
-        return v if user_dps is not None else (float(v) if not isinstance(v, (complex, mpmath.mpc)) else complex(v))
+        if user_dps is not None:
+            return mpmath.mpmathify(v)
+        return float(v) if not isinstance(v, (complex, mpmath.mpc)) else complex(v)
     ok = resid < 1e-11
     msg = message or ("converged" if ok else f"unitarity residual {resid:.3g} is larger than expected")
     if not ok:
@@ -296,7 +377,8 @@ def _result(w, in_modes, out_modes, S, resid, fig, kappa, user_dps, dps, extra, 
         thermal_ratio=conv(fig["thermal_ratio"]), occupation=conv(fig["occupation"]),
         effective_temperature=conv(fig["effective_temperature"]),
         hawking_temperature=kappa / (2 * math.pi), kappa=kappa, dps=dps,
-        error_estimate=max(resid, 10.0 ** (-extra.get("target_digits", 16))), success=ok, message=msg, method="contour", extra=extra)
+        error_estimate=error if error is not None else max(resid, 10.0 ** (-extra.get("target_digits", 16))),
+        success=ok, message=msg, method="contour", extra=extra)
 
 
 def _nondispersive(model, rep, w, kappa, dps, user_dps):
@@ -349,12 +431,35 @@ class Spectrum(RowTable):
         return np.array([float(v) for v in super().column(key)])
 
 
-def _scatter_one(args):
-    model, w, digits = args
-    return scatter(model, w, dps=digits)
+def _sweep(args):
+    """scatter() at increasing frequencies, following the traced geometry in omega where it can."""
+    model, ws, digits, follow, progress = args
+    from .sweep import Family, Lost
+    family, state, out = None, None, []
+    if progress:
+        try:
+            from tqdm import tqdm
+            ws = tqdm(ws, desc="spectrum", unit="omega")
+        except ImportError:  # pragma: no cover
+            pass
+    for w in ws:
+        res = None
+        if state is not None:
+            try:
+                res, state = _continued(model, family, state, w, digits)
+            except Lost:
+                res = None
+        if res is None:
+            keep = {"family": family} if follow else None
+            res = _scatter(model, w, digits, keep)
+            state = keep.get("state") if follow else None
+            if state is not None and family is None:
+                family = keep.get("family") or Family(model)
+        out.append(res)
+    return out
 
 
-def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1):
+def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, follow=True):
     """Scattering figures over frequencies, correct also for exponentially small |beta|^2.
 
     Each frequency is computed by :func:`scatter`, whose working precision is
@@ -370,6 +475,11 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1):
     progress : bool, show a progress bar (tqdm, if installed)
     workers : int, number of local processes (default 1; for resumable and
         cluster scans use :func:`contourkit.scan.scan`)
+    follow : bool, follow the traced geometry from one frequency to the next
+        (:mod:`contourkit.sweep`; default True).  Each followed frequency is
+        checked (matching, labels, unitarity) and traced afresh if a check
+        fails; ``results[i].extra["geometry"]`` says which was done.  False
+        traces every frequency (as :func:`scatter` does).
 
     Returns
     -------
@@ -391,30 +501,31 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1):
     if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
         raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
     digits = int(dps) if dps is not None else max(1, int(math.ceil(-math.log10(rtol))))
-    it = ws
-    if progress:
-        try:
-            from tqdm import tqdm
-            it = tqdm(ws, desc="spectrum", unit="omega")
-        except ImportError:  # pragma: no cover
-            pass
     if isinstance(workers, bool) or not isinstance(workers, (int, np.integer)) or workers < 1:
         raise InputError(f"workers must be a positive integer, got {workers!r}")
-    if workers > 1 and len(ws) > 1:
+    if not isinstance(follow, bool):
+        raise InputError(f"follow must be True or False, got {follow!r}")
+    order = sorted(range(len(ws)), key=lambda i: ws[i])
+    done = [None] * len(ws)
+    n = min(int(workers), len(ws))
+    chunks = [order[i * len(ws) // n:(i + 1) * len(ws) // n] for i in range(n)]
+    if n > 1:
         from concurrent.futures import ProcessPoolExecutor
-        with ProcessPoolExecutor(max_workers=min(int(workers), len(ws))) as pool:
-            done = list(pool.map(_scatter_one, [(model, w, digits) for w in ws]))
+        with ProcessPoolExecutor(max_workers=n) as pool:
+            for idx, res in zip(chunks, pool.map(_sweep, [(model, [ws[i] for i in c], digits, follow, False)
+                                                          for c in chunks])):
+                for i, r in zip(idx, res):
+                    done[i] = r
     else:
-        done = None
-    rows, results = [], []
-    for i, w in enumerate(it):
-        res = done[i] if done is not None else scatter(model, w, dps=digits)
+        for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, progress))):
+            done[i] = r
+    rows = []
+    for res in done:
         row = res.as_row()
         row["dps"] = res.dps
         row["message"] = res.message
         rows.append(row)
-        results.append(res)
-    return Spectrum(rows, results)
+    return Spectrum(rows, done)
 
 
 def continuation_ratio(eq, point, *, through="upper", x=2000.0):
