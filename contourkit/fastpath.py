@@ -64,7 +64,7 @@ class ExtFrame:
     """A frame's data (sweep.Frame) in extended precision, in the frame's singular-point order."""
 
     def __init__(self, frame):
-        A, B = frame.family.ext_AB(R(frame.omega))
+        A, B = frame.family.ext_AB(frame.omega_ext)
         self.s1 = B
         dB0 = np.concatenate([np.zeros(1, dtype=C), _polyder(B)]) if B.size > 1 else np.zeros_like(B)
         N = 1j * A - dB0
@@ -109,7 +109,7 @@ def _saddle_log(ef, s, logs_d):
     lr = _logs(ef.kj, np.asarray(logs_d) + np.log((s.real - ef.kj.astype(complex)) / (s - ef.kj.astype(complex))), kr)
     v, e = _re_sum(ef.Q, kr, lr, ef.nu)
     s1 = abs(_polyval(ef.s1, kr))
-    lc = R(math.log(2 * math.pi)) + v + np.log(s1) / 2
+    lc = np.log(2 * PI) + v + np.log(s1) / 2
     return lc, e + U * (4 + abs(float(lc)))
 
 

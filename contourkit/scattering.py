@@ -454,7 +454,10 @@ def _sweep(args):
             res = _scatter(model, w, digits, keep)
             state = keep.get("state") if follow else None
             if state is not None and family is None:
-                family = keep.get("family") or Family(model)
+                try:
+                    family = keep.get("family") or Family(model)
+                except Lost:            # coefficients not polynomial in omega: trace every frequency
+                    state = None
         out.append(res)
     return out
 

@@ -42,7 +42,7 @@ import sympy as sp
 
 from . import phase
 from .decompose import coefficient, geometry_x
-from ._sym import mp_value
+from ._sym import exact, mp_value
 from .modes import DispersionDerivatives, ModeData, _label, _track_root, branch_constant_at, saddle_constant_at
 from .results import Mode
 from .saddles import polish
@@ -157,13 +157,17 @@ class Frame(DispersionDerivatives):
     def __init__(self, family, omega, perm=None):
         self.family = family
         self.model = family.model
-        self.omega = mpmath.mpf(omega)
+        # omega is read as the decimal the user typed (as model.mode_equation does: _sym.exact)
+        self._w_exact = exact(float(omega))
+        self._w_mp = {}
+        self.omega = self.omega_mp(30)
+        self.omega_ext = np.longdouble(repr(float(omega)))
         self._dDdw = DispersionDerivatives.dDdw_function(self.model)
         self._mp = {}
         self._data = {}
         self.perm = perm
         # double-precision data (numpy); mpmath data on demand (mp_data)
-        A, B = family.ext_AB(np.longdouble(omega))
+        A, B = family.ext_AB(self.omega_ext)
         A, B = A.astype(complex), B.astype(complex)
         Bp = np.concatenate([[0], np.polyder(B)]) if B.size > 1 else np.zeros_like(B)
         self.s0_np, self.s1_np = A + 0.5j * Bp, B
@@ -184,8 +188,13 @@ class Frame(DispersionDerivatives):
         self._kj_raw, self._nu_raw = kj, nu
         self.np = _Numeric(self, family)
 
+    def omega_mp(self, dps):
+        if dps not in self._w_mp:
+            self._w_mp[dps] = mpmath.re(mp_value(self._w_exact, dps))
+        return self._w_mp[dps]
+
     def _AB(self):
-        return self.family.mp_AB(self.omega)
+        return self.family.mp_AB(self.omega_mp(mpmath.mp.dps))
 
     @staticmethod
     def _weyl(A, B):
@@ -284,7 +293,7 @@ class _Numeric:
 
     def __init__(self, frame, family):
         self._d0, self._d1 = np.polyder(frame.s0_np), np.polyder(frame.s1_np)
-        self._f, self._w = family.dDdw_np, float(frame.omega)
+        self._f, self._w = family.dDdw_np, float(frame.omega_ext)
 
     def dDdk(self, k, x):
         return np.polyval(self._d0, k) + x * np.polyval(self._d1, k)
