@@ -301,8 +301,8 @@ class HorizonModel:
         return scatter(self, omega, **kw)
 
     def spectrum(self, omegas, **kw):
-        """One row per frequency; see :func:`contourkit.scattering.spectrum`."""
-        from .scattering import spectrum
+        """One row per frequency; see :func:`contourkit.spectra.spectrum`."""
+        from .spectra import spectrum
         return spectrum(self, omegas, **kw)
 
     def __repr__(self):

@@ -44,7 +44,7 @@ from .bogoliubov import hawking_figures
 from .decompose import coefficient, decompose
 from .errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
 from .modes import DispersionDerivatives, catalogue
-from .results import Mode, RowTable, ScatteringResult
+from .results import Mode, ScatteringResult
 
 
 def _check_omega(omega):
@@ -174,37 +174,12 @@ def _prepare(model, omega, dps):
     return w, (int(dps) if dps is not None else 16)
 
 
-def _continued(model, family, state, omega, dps, geometry=None):
-    """scatter() at omega from a state traced at a nearby frequency (sweep.follow); raises Lost."""
-    from .sweep import Lost, follow
-    w, target = _prepare(model, omega, dps)
-    frame, new, constants = follow(family, state, w)
-    n_c = len(state["terms"])
-    extra = {"x_exterior": new["sides"][0].X, "x_interior": new["sides"][1].X,
-             "geometry": geometry or f"continued from omega = {state['omega']:.17g}"}
-    if target <= 10:
-        from . import fastpath
-        ef = fastpath.ExtFrame(frame)
-        data = [fastpath.side_data(frame, ef, side, state["terms"]) for side in new["sides"]]
-        out = fastpath.assemble(model, data, n_c, w, 10.0 ** (-target)) if None not in data else None
-        if out is not None and out[4] < 1e-11:
-            in_modes, out_modes, grow, S, resid, fig, bound = out
-            new["omega"] = w
-            return _result(w, in_modes, out_modes, S, resid, fig, float(model.kappa), dps, fastpath.DIGITS,
-                           extra=dict(extra, arithmetic="numpy extended precision", growing=grow,
-                                      target_digits=target), error=max(resid, bound)), new
-    try:
-        with warnings.catch_warnings():
-            warnings.simplefilter("error", AccuracyWarning)
-            res = _finish(model, constants, n_c, w, target, float(model.kappa), dps, extra)
-    except (ScatteringError, AccuracyWarning, ZeroDivisionError) as e:
-        raise Lost(str(e))
-    new["omega"] = w
-    return res, new
-
-
 def _scatter(model, omega, dps, keep):
-    """scatter(); with a dict ``keep``, the traced geometry is left in keep["state"] for sweep.follow."""
+    """scatter(); with a dict ``keep``, the traced geometry is left in keep["state"] for sweep.follow.
+
+    ``keep["fast"]``, if given, is called as ``fast(state, omega)`` and may
+    return ``(result, state)`` instead of the mpmath evaluation (None: declined).
+    """
     from .horizon import HorizonModel
     if not isinstance(model, HorizonModel):
         raise InputError(f"scatter needs a horizon model (catalogue, model file or HorizonModel), got "
@@ -220,20 +195,16 @@ def _scatter(model, omega, dps, keep):
     contours = rep.basis()
     dd = DispersionDerivatives(model, w, eq)
     sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
-    if keep is not None and target <= 10:
-        # a spectrum at modest accuracy: labels once, then the fast arithmetic of sweep/fastpath
-        from .sweep import Family, Lost
+    if keep is not None and keep.get("fast") is not None:
+        # a spectrum at modest accuracy: labels once, then the caller's fast evaluation (spectra.py)
         mods = [_side_constants(rep, contours, dd, sd, target + 10)[0] for sd in sides]
         state = _state(rep, contours, sides, mods)
         if state is not None:
             state["omega"] = w
-            try:
-                if keep.get("family") is None:
-                    keep["family"] = Family(model)
-                res, keep["state"] = _continued(model, keep["family"], state, w, user_dps, geometry="traced")
+            out = keep["fast"](state, w)
+            if out is not None:
+                res, keep["state"] = out
                 return res
-            except Lost:
-                pass
     last = {}
 
     def constants(d):
@@ -407,128 +378,6 @@ def _nondispersive(model, rep, w, kappa, dps, user_dps):
                    extra={"large_k_exponent": complex(mu)},
                    message="non-dispersive horizon: no dispersive in-modes; |beta/alpha|^2 from the large-k "
                            "exponent (analytic continuation through the upper half x-plane)")
-
-
-class Spectrum(RowTable):
-    """Rows of scattering figures, one per frequency.
-
-    Attributes
-    ----------
-    rows : list of dict
-        Keys: omega, occupation (|beta|^2), thermal_ratio (|beta/alpha|^2),
-        effective_temperature, hawking_temperature, temperature_ratio
-        (T_eff/T_H), unitarity_residual, n_in, dps (working precision used),
-        error_estimate, success, method, message.
-    results : list of ScatteringResult
-    """
-
-    def __init__(self, rows, results):
-        super().__init__(rows)
-        self.results = results
-
-    def column(self, key):
-        """One column as a numpy array (floats)."""
-        return np.array([float(v) for v in super().column(key)])
-
-
-def _sweep(args):
-    """scatter() at increasing frequencies, following the traced geometry in omega where it can."""
-    model, ws, digits, follow, progress = args
-    from .sweep import Family, Lost
-    family, state, out = None, None, []
-    if progress:
-        try:
-            from tqdm import tqdm
-            ws = tqdm(ws, desc="spectrum", unit="omega")
-        except ImportError:  # pragma: no cover
-            pass
-    for w in ws:
-        res = None
-        if state is not None:
-            try:
-                res, state = _continued(model, family, state, w, digits)
-            except Lost:
-                res = None
-        if res is None:
-            keep = {"family": family} if follow else None
-            res = _scatter(model, w, digits, keep)
-            state = keep.get("state") if follow else None
-            if state is not None and family is None:
-                try:
-                    family = keep.get("family") or Family(model)
-                except Lost:            # coefficients not polynomial in omega: trace every frequency
-                    state = None
-        out.append(res)
-    return out
-
-
-def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, follow=True):
-    """Scattering figures over frequencies, correct also for exponentially small |beta|^2.
-
-    Each frequency is computed by :func:`scatter`, whose working precision is
-    raised until two precisions agree on the thermal ratio and occupation to
-    ``rtol`` (relative); the precision used is reported in each row's ``dps``.
-
-    Parameters
-    ----------
-    model : HorizonModel
-    omegas : sequence of positive floats
-    rtol : float, relative accuracy requested for thermal_ratio and occupation
-    dps : int, optional, number of correct digits (overrides rtol)
-    progress : bool, show a progress bar (tqdm, if installed)
-    workers : int, number of local processes (default 1; for resumable and
-        cluster scans use :func:`contourkit.scan.scan`)
-    follow : bool, follow the traced geometry from one frequency to the next
-        (:mod:`contourkit.sweep`; default True).  Each followed frequency is
-        checked (matching, labels, unitarity) and traced afresh if a check
-        fails; ``results[i].extra["geometry"]`` says which was done.  False
-        traces every frequency (as :func:`scatter` does).
-
-    Returns
-    -------
-    Spectrum
-
-    Examples
-    --------
-    >>> import contourkit as ck
-    >>> spec = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5).spectrum([0.02, 0.05])
-    >>> [round(r["temperature_ratio"], 3) for r in spec]
-    [1.0, 1.0]
-    """
-    try:
-        ws = [float(w) for w in np.atleast_1d(np.asarray(omegas, dtype=float))]
-    except (TypeError, ValueError):
-        raise InputError(f"omegas must be a sequence of positive numbers, got {omegas!r}")
-    if not ws:
-        raise InputError("omegas is empty; give at least one frequency")
-    if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
-        raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
-    digits = int(dps) if dps is not None else max(1, int(math.ceil(-math.log10(rtol))))
-    if isinstance(workers, bool) or not isinstance(workers, (int, np.integer)) or workers < 1:
-        raise InputError(f"workers must be a positive integer, got {workers!r}")
-    if not isinstance(follow, bool):
-        raise InputError(f"follow must be True or False, got {follow!r}")
-    order = sorted(range(len(ws)), key=lambda i: ws[i])
-    done = [None] * len(ws)
-    n = min(int(workers), len(ws))
-    chunks = [order[i * len(ws) // n:(i + 1) * len(ws) // n] for i in range(n)]
-    if n > 1:
-        from concurrent.futures import ProcessPoolExecutor
-        with ProcessPoolExecutor(max_workers=n) as pool:
-            for idx, res in zip(chunks, pool.map(_sweep, [(model, [ws[i] for i in c], digits, follow, False)
-                                                          for c in chunks])):
-                for i, r in zip(idx, res):
-                    done[i] = r
-    else:
-        for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, progress))):
-            done[i] = r
-    rows = []
-    for res in done:
-        row = res.as_row()
-        row["dps"] = res.dps
-        row["message"] = res.message
-        rows.append(row)
-    return Spectrum(rows, done)
 
 
 def continuation_ratio(eq, point, *, through="upper", x=2000.0):

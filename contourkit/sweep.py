@@ -34,14 +34,13 @@ References
    connection forms).
 """
 import cmath
-import math
 
 import mpmath
 import numpy as np
 import sympy as sp
 
 from . import phase
-from .decompose import coefficient, geometry_x
+from .decompose import coefficient
 from ._sym import exact, mp_value
 from .modes import DispersionDerivatives, ModeData, _label, _track_root, branch_constant_at, saddle_constant_at
 from .results import Mode
@@ -511,4 +510,4 @@ def side_constants(frame, side, terms, dps):
     return mods, N
 
 
-__all__ = ["Family", "Frame", "Lost", "SideState", "follow", "side_constants", "geometry_x"]
+__all__ = ["Family", "Frame", "Lost", "SideState", "follow", "side_constants"]

@@ -24,7 +24,7 @@ import numpy as np
 import pytest
 
 import contourkit as ck
-from contourkit import fastpath, scattering, sweep
+from contourkit import fastpath, scattering, spectra, sweep
 
 warnings.simplefilter("ignore", ck.CoalescenceWarning)
 
@@ -98,7 +98,7 @@ def test_large_steps_are_followed_in_substeps():
     m = ck.catalogue.quartic_flow(kappa=KAPPA, Lambda=LAMBDA)
     keep = {}
     scattering._scatter(m, 0.01, 8, keep)
-    res, new = scattering._continued(m, keep["family"], keep["state"], 0.03, 8)
+    res, new = spectra._continued(m, sweep.Family(m), keep["state"], 0.03, 8)
     ref = m.scatter(0.03)
     assert abs(res.thermal_ratio / ref.thermal_ratio - 1) < 1e-8
     assert new["omega"] == 0.03
@@ -134,7 +134,7 @@ def test_fast_constants_equal_mpmath_constants(model):
     # flux constants of every propagating mode: extended precision against mpmath (modes.py closed forms)
     keep = {}
     scattering._scatter(model, 0.04, 8, keep)
-    fam, state = keep["family"], keep["state"]
+    fam, state = sweep.Family(model), keep["state"]
     fr, new, _ = sweep.follow(fam, state, 0.041)
     ef = fastpath.ExtFrame(fr)
     for side in new["sides"]:
