@@ -23,7 +23,7 @@ Hawking-row figures to first order:
   are amplified where the sums over basis contours cancel.
 
 The relative error bound of thermal_ratio and occupation follows; if it
-exceeds half the requested tolerance, or anything is out of range,
+exceeds the requested tolerance, or anything is out of range,
 the caller falls back to the mpmath path (scattering._finish), which raises
 its precision until two precisions agree.
 
@@ -54,8 +54,8 @@ def _polyder(c):
 
 
 def _polyval(c, z):
-    v = np.zeros_like(np.asarray(z, dtype=C))
-    for a in c:
+    v = c[0] + 0 * z
+    for a in c[1:]:
         v = v * z + a
     return v
 
@@ -150,7 +150,13 @@ def side_data(frame, ef, side, terms):
     nu = list(ef.nu)
     N = np.zeros((len(mods), len(terms)), dtype=C)
     EN = np.zeros(N.shape)
-    exp2 = lambda z: np.exp(2j * PI * z)  # noqa: E731
+    cache = {}
+
+    def exp2(z):
+        # exp(2 pi i z) for z = m . nu; the sheet shifts m repeat, so values are cached per z
+        if z not in cache:                   # keyed by the exact (extended) value
+            cache[z] = np.exp(2j * PI * z)
+        return cache[z]
     for col, (tm, cf) in enumerate(zip(terms, side.coeffs)):
         for _, i, cl in cf:
             N[i, col] = coefficient(None, tm, cl, nu, exp2)
@@ -178,7 +184,7 @@ def _solve(B, rhs):
 
 
 def assemble(model, data, n_c, w, rtol):
-    """(in_modes, out_modes, growing, S, residual, figures, bound), or None if the bound exceeds rtol / 2.
+    """(in_modes, out_modes, growing, S, residual, figures, bound), or None if the bound exceeds rtol.
 
     First-order error propagation for ``S = M_out A^-1`` (rows of A: in-modes
     ``c_r N_r`` and growing modes ``N_r``; rows of M_out: ``c_o N_o``):
@@ -246,6 +252,6 @@ def assemble(model, data, n_c, w, rtol):
     ja = int(np.argmin(np.abs(Sd[h] - fig["alpha"])))
     # relative error of |beta|^2 / |alpha|^2, plus the rounding of S to double
     bound = 2 * max([float(rel[j]) for j in opp] + [0.0]) + 2 * float(rel[ja]) + 4e-16
-    if not bound < 0.5 * rtol:
+    if not bound <= rtol:
         return None
     return in_modes, out_modes, [r[0].mode for r in grow], Sd, resid, fig, bound

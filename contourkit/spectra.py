@@ -127,7 +127,7 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
     ratio and occupation to ``rtol`` (relative).  For ``rtol >= 1e-10`` a
     followed frequency is first evaluated in numpy extended precision
     (:mod:`contourkit.fastpath`) and kept if its first-order error bound is
-    below ``rtol / 2``.  Each row reports the precision used (``dps``) and the
+    at most ``rtol``.  Each row reports the precision used (``dps``) and the
     error estimate.
 
     Parameters

@@ -41,7 +41,7 @@ import sympy as sp
 
 from . import phase
 from .decompose import coefficient
-from ._sym import exact, mp_value
+from ._sym import mp_value
 from .modes import DispersionDerivatives, ModeData, _label, _track_root, branch_constant_at, saddle_constant_at
 from .results import Mode
 from .saddles import polish
@@ -157,10 +157,9 @@ class Frame(DispersionDerivatives):
         self.family = family
         self.model = family.model
         # omega is read as the decimal the user typed (as model.mode_equation does: _sym.exact)
-        self._w_exact = exact(float(omega))
+        self._w_text = repr(float(omega))
         self._w_mp = {}
-        self.omega = self.omega_mp(30)
-        self.omega_ext = np.longdouble(repr(float(omega)))
+        self.omega_ext = np.longdouble(self._w_text)
         self._dDdw = DispersionDerivatives.dDdw_function(self.model)
         self._mp = {}
         self._data = {}
@@ -172,7 +171,7 @@ class Frame(DispersionDerivatives):
         self.s0_np, self.s1_np = A + 0.5j * Bp, B
         self._B_np, self._N_np = B, 1j * A - Bp
         Bt = np.trim_zeros(B, "f")
-        q = np.polydiv(self._N_np, Bt)[0] if Bt.size > 1 else self._N_np / Bt[0]
+        q = _quotient(self._N_np, Bt)
         self._Q = np.trim_zeros(np.polyint(q), "f") if np.any(q) else np.zeros(0, complex)
         kj = np.roots(Bt) if Bt.size > 1 else np.zeros(0, complex)
         dB = np.polyder(Bt) if Bt.size > 1 else np.zeros(1, complex)
@@ -187,9 +186,15 @@ class Frame(DispersionDerivatives):
         self._kj_raw, self._nu_raw = kj, nu
         self.np = _Numeric(self, family)
 
+    @property
+    def omega(self):
+        """omega at the current mpmath precision (used by DispersionDerivatives.dDdw)."""
+        return self.omega_mp(mpmath.mp.dps)
+
     def omega_mp(self, dps):
         if dps not in self._w_mp:
-            self._w_mp[dps] = mpmath.re(mp_value(self._w_exact, dps))
+            with mpmath.workdps(dps):
+                self._w_mp[dps] = mpmath.mpf(self._w_text)
         return self._w_mp[dps]
 
     def _AB(self):
@@ -269,22 +274,10 @@ class Frame(DispersionDerivatives):
         return self._data[dps]
 
     def critical_points(self, x):
-        c = np.trim_zeros(np.polyadd(1j * x * self._B_np, self._N_np), "f")
-        r = np.roots(c)
-        dc = np.polyder(c)
-        for _ in range(3):
-            d = np.polyval(dc, r)
-            r = np.where(d != 0, r - np.polyval(c, r) / np.where(d != 0, d, 1), r)
-        return r
+        return _polished_roots(np.polyadd(1j * x * self._B_np, self._N_np))
 
     def roots_np(self, x):
-        c = np.trim_zeros(np.polyadd(self.s0_np, x * self.s1_np), "f")
-        r = np.roots(c)
-        dc = np.polyder(c)
-        for _ in range(3):
-            d = np.polyval(dc, r)
-            r = np.where(d != 0, r - np.polyval(c, r) / np.where(d != 0, d, 1), r)
-        return r
+        return _polished_roots(np.polyadd(self.s0_np, x * self.s1_np))
 
 
 class _Numeric:
@@ -299,6 +292,24 @@ class _Numeric:
 
     def dDdw(self, k, x):
         return complex(self._f(k, x, self._w))
+
+
+def _quotient(num, den):
+    """Quotient of polynomial division (coefficient arrays, highest power first)."""
+    num = np.array(num, dtype=complex)
+    q = np.zeros(max(num.size - den.size + 1, 1), dtype=complex)
+    for i in range(num.size - den.size + 1):
+        q[i] = num[i] / den[0]
+        num[i:i + den.size] -= q[i] * den
+    return q
+
+
+def _polished_roots(c):
+    """np.roots with one Newton step (double precision)."""
+    c = np.trim_zeros(c, "f")
+    r = np.roots(c)
+    d = np.polyval(np.polyder(c), r)
+    return np.where(d != 0, r - np.polyval(c, r) / np.where(d != 0, d, 1), r)
 
 
 def _separation(pts):
@@ -336,11 +347,12 @@ def _follow_side(frame, side, kj_old):
         raise Lost("the number of critical points changed")
     kj = frame._kj
     shift = kj - kj_old
+    sep = _separation(kj_old)
     match = []
     for i, s in enumerate(side.crit):
         # critical points next to a singular point move with it
         j = int(np.argmin(np.abs(s - kj_old))) if kj.size else -1
-        guess = s + (shift[j] if j >= 0 and abs(s - kj_old[j]) < 0.25 * _separation(kj_old) else 0)
+        guess = s + (shift[j] if j >= 0 and abs(s - kj_old[j]) < 0.25 * sep else 0)
         match.append(int(np.argmin(np.abs(new - guess))))
     if len(set(match)) != len(match):
         raise _TooFar("critical points could not be matched")
