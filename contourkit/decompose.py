@@ -139,6 +139,14 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True):
                 cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
             n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
             size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
+            if cl and not (math.isfinite(abs(n)) and math.isfinite(size)):
+                # the test below would drop the thimble silently
+                big = max(abs(v.imag) for v in nu)
+                raise ContourError(f"the coefficient of the thimble at k = {s:.6g} (x = {x}) overflows double "
+                                   f"precision: sheet factors exp(2 pi i m nu) with |Im nu| up to {big:.4g} "
+                                   f"exceed 1e308 (|Im nu| > 112) and the geometry is double precision, so "
+                                   f"the decomposition cannot be represented; for a horizon model use "
+                                   f"contourkit.direct.scatter")
             if cl and abs(n) > 1e-12 * size:
                 out[c].append((n, i, cl))
     return Geometry(x, xg, crit, thims, u_stop), (out if many else out[0])

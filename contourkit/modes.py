@@ -36,7 +36,7 @@ References
 .. [2] NIST DLMF 2.4 (Watson's lemma, loop integrals) and 5.9.2 (Hankel's loop).
 """
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import mpmath
 import numpy as np
@@ -62,7 +62,7 @@ class ModeData:
     constant : mpf     flux constant c (None for growing/decaying modes)
     branch : int       singular-point index for long-wavelength modes, else -1
     loop : tuple       (m_in, n) of the Hankel loop of a long-wavelength mode (branch_constant_at)
-    far : Mode         labels at geom.x before the near-horizon relabelling (saddle modes)
+    far : Mode         labels at geom.x before the near-horizon relabelling (propagating modes)
     """
     index: int
     mode: Mode
@@ -152,6 +152,51 @@ def _label(side, k, x, dd, origin):
                 kind="propagating", k=complex(k), group_velocity=vg, origin=origin, x=x)
 
 
+def turning_mode(dd, side, k, x, x_far, dk_sign):
+    """Labels of a mode that turns back at a turning point near (k, x), read just outside it.
+
+    The turning point (k_t, x_t) solves D = dD/dk = 0 (Newton's method in the
+    two real unknowns, double precision, from the last real point (k, x) of
+    the tracked root).  The labels are read at ``x_b = 1.01 x_t`` (towards the
+    far region) on the root of the mode's own branch (the sign of dD/dk along a branch
+    does not change before the turning point: ``dk_sign``), so that the
+    group velocity is definite and does not depend on the tracking steps.
+    Returns the Mode at (k_b, x_b), or None if Newton's method fails.
+    """
+    s0, s1 = np.real(dd.s0_np), np.real(dd.s1_np)
+    d0, d1 = np.polyder(s0), np.polyder(s1)
+    dd0, dd1 = np.polyder(d0), np.polyder(d1)
+    kt, xt = float(k), float(x)
+    for _ in range(200):
+        F1 = np.polyval(s0, kt) + xt * np.polyval(s1, kt)
+        F2 = np.polyval(d0, kt) + xt * np.polyval(d1, kt)
+        a, b = F2, np.polyval(s1, kt)
+        c, d = np.polyval(dd0, kt) + xt * np.polyval(dd1, kt), np.polyval(d1, kt)
+        det = a * d - b * c
+        if det == 0 or not np.isfinite(det):
+            return None
+        dk, dx = (F1 * d - b * F2) / det, (a * F2 - c * F1) / det
+        damp = min(1.0, 0.05 * (1 + abs(x)) / max(abs(dx), 1e-300), 0.05 * (1 + abs(k)) / max(abs(dk), 1e-300))
+        dk, dx = damp * dk, damp * dx
+        kt, xt = kt - dk, xt - dx
+        if abs(dk) <= 1e-13 * (1 + abs(kt)) and abs(dx) <= 1e-13 * (1 + abs(xt)):
+            break
+    else:
+        return None
+    if abs(xt - x) > 0.2 * abs(x) or abs(kt - k) > 0.2 * (1 + abs(k)) or not abs(xt) < abs(x_far):
+        return None              # not the turning point where the tracked root left the real axis
+    xb = 1.01 * xt                     # 1% further from the horizon, towards the far region
+    roots = np.roots(np.polyadd(s0, xb * s1))
+    roots = roots[np.abs(roots.imag) <= 1e-9 * np.maximum(1.0, np.abs(roots))].real
+    if roots.size < 2:
+        return None
+    pair = roots[np.argsort(np.abs(roots - kt))[:2]]
+    own = [r for r in pair if np.sign(np.polyval(d0, r) + xb * np.polyval(d1, r)) == dk_sign]
+    if len(own) != 1:
+        return None
+    return _label(side, float(own[0]), float(xb), dd, "")
+
+
 def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
     """Follow a real root of D(k; x) from x_from towards x_to (same sign) by Newton continuation.
 
@@ -167,51 +212,131 @@ def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
         x = x_from * (x_to / x_from) ** (t / steps)
         c, dc = np.polyadd(s0, x * s1), np.polyadd(d0, x * d1)
         rn = r
+        converged = False
         for _ in range(60):
             step = np.polyval(c, rn) / np.polyval(dc, rn)
             rn -= step
             if abs(step) < 1e-14 * (1 + abs(rn)):
+                converged = True
                 break
-        if abs(rn.imag) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-300:
+        # from a real start Newton's iterates stay real: past a turning point they do not converge
+        if not converged or abs(rn.imag) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-300:
             break
         r = complex(rn.real)
         last = (r, x)
     return last
 
 
-def _physical_label(side, k, x, label_x, dd, origin):
-    """Labels of a real root: at label_x (near the horizon) when the root can be followed there.
+def _flux_sign(m):
+    """Direction of the conserved (wave-action) flux of a mode along x: sign(norm * v_g) = -sign(dD/dk)."""
+    return m.norm * (1 if m.group_velocity > 0 else -1)
 
-    Far out, the linearised profile stops describing the background (a flow's
-    speed grows without bound and changes sign), which can flip the labels of
-    a mode while its flux constant stays the same; so the labels are taken
-    where the linear model is still the near-horizon one.  If the root turns
-    complex on the way (a turning point: the mode does not reach that far in),
-    the labels at the farthest point where it is real before that are used.
-    Returns (labels, far labels).
+
+def _relabel(md, near, labels):
+    """Record the near-horizon mode of md (and take its labels when ``labels``)."""
+    md.mode.data["near_horizon"] = {"k": near.k, "x": near.x, "group_velocity": near.group_velocity}
+    if labels:
+        md.mode.norm, md.mode.direction = near.norm, near.direction
+        md.mode.group_velocity, md.mode.x = near.group_velocity, near.x
+
+
+def _near_horizon_labels(out, far_k, x, label_x, dd):
+    """Give each propagating far mode the labels (norm, direction) of the near-horizon mode it continues to.
+
+    Far out the linearised profile stops describing the background (a flow's
+    speed grows without bound, a resonance frequency squared passes through
+    zero), which can flip a mode's norm and direction together; the flux
+    direction sign(norm v_g) = -sign(dD/dk) and the flux constant do not
+    change.  Boundary conditions (which modes are in-modes) belong to the
+    near-horizon region, so labels are read at ``label_x``:
+
+    * a real root that can be followed from x to label_x takes the labels of
+      the near-horizon root it reaches when its norm differs there (the
+      artefact flips norm and direction together; otherwise far labels stand);
+    * roots that turn complex on the way (a turning point or a coalescence
+      between x and label_x) are matched with the near-horizon real roots
+      that no followed root reached, by flux direction, the one label that a
+      flux-conserving connection cannot change.  The match must be unique
+      (same numbers of each flux direction, one label per direction), else
+      ScatteringError.  If no near-horizon root is left over, the mode turns
+      back before the near-horizon region and keeps the labels at the last
+      point where its root is real.
+
+    Each labelled mode records its near-horizon root in
+    ``mode.data["near_horizon"]`` (keys k, x, group_velocity).
     """
-    far = _label(side, mpmath.mpf(k), x, dd, origin)
     if label_x is None or label_x == x:
-        return far, far
-    r, xl = _track_root(dd, k, x, label_x)
-    near = _label(side, mpmath.mpf(complex(r).real), float(xl), dd, origin)
-    # the artefact flips norm and direction together; otherwise the far labels stand
-    return (near if near.norm != far.norm else far), far
+        return
+    key = (x, label_x, tuple(far_k))
+    cache = dd.__dict__.setdefault("_near_labels", {})   # labels do not depend on the working precision
+    if key not in cache:
+        cache[key] = _near_label_plan(far_k, x, label_x, dd)
+    for i, near, take in cache[key]:
+        _relabel(out[i], near, take)
+
+
+def _near_label_plan(far_k, x, label_x, dd):
+    """(position, near-horizon Mode, take its labels) for the propagating far modes; see above."""
+    side = _side(x)
+    near = []
+    for r in dd.roots(label_x, 20):
+        rc = complex(r)
+        if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
+            near.append(_label(side, mpmath.mpf(rc.real), label_x, dd, "near horizon"))
+    far = {i: _label(side, mpmath.mpf(k), x, dd, "") for i, k in enumerate(far_k) if k is not None}
+    claimed, pending, plan = set(), [], []
+    for i, fm in far.items():
+        r, xl = _track_root(dd, far_k[i], x, label_x)
+        if abs(xl - label_x) > 1e-9 * abs(label_x) or not near:
+            pending.append((i, r, xl))
+            continue
+        # along a real branch dD/dk keeps its sign (it vanishes only at turning points), so the
+        # flux direction picks the branch where two near-horizon roots are close together
+        same = [q for q in range(len(near)) if _flux_sign(near[q]) == _flux_sign(fm)]
+        j = min(same, key=lambda q: abs(near[q].k - r)) if same else -1
+        if j < 0 or j in claimed or abs(near[j].k - r) > 0.1 * max(1.0, abs(r)):
+            raise ScatteringError(f"the root k = {far_k[i]:.6g} at x = {x} does not continue to a distinct "
+                                  f"near-horizon root at x = {label_x}; the mode cannot be labelled")
+        claimed.add(j)
+        plan.append((i, near[j], near[j].norm != fm.norm))
+    free = [m for j, m in enumerate(near) if j not in claimed]
+    if not free:
+        for i, r, xl in pending:
+            last = turning_mode(dd, side, complex(r).real, float(xl), x, -_flux_sign(far[i]))
+            if last is None:
+                last = _label(side, mpmath.mpf(complex(r).real), float(xl), dd, "")
+            plan.append((i, last, last.norm != far[i].norm))
+        return plan
+    want = sorted(_flux_sign(far[i]) for i, _, _ in pending)
+    have = sorted(_flux_sign(m) for m in free)
+    groups = {g: {(m.norm, m.direction) for m in free if _flux_sign(m) == g} for g in set(have)}
+    if want != have or any(len(g) != 1 for g in groups.values()):
+        ks = ", ".join(f"{far_k[i]:.4g}" for i, _, _ in pending)
+        raise ScatteringError(f"on the {side} side the modes k = {ks} at x = {x} do not continue to the "
+                              f"near-horizon region at x = {label_x} (their roots turn complex on the way) and "
+                              f"their flux directions do not match the remaining near-horizon modes one to one: "
+                              f"the linearised model's far region is not a continuation of the near-horizon "
+                              f"region; use contourkit.direct.scatter on the full profile")
+    for i, _, _ in pending:
+        plan.append((i, next(m for m in free if _flux_sign(m) == _flux_sign(far[i])), True))
+    return plan
 
 
 def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
     """One ModeData per critical point of the geometry at x = geom.x (|x| large).
 
-    Dispersive (saddle) modes are labelled at ``label_x`` (same side, default
-    geom.x), where the linearised profile still describes the flow: far out
-    the linear model's flow speed changes sign and would flip the labels of
-    short-wavelength modes, while their flux constants do not change (WKB
-    flux conservation).
+    Flux constants are those of the far region (x); the labels of every
+    propagating mode, saddle or branch point, are those of the near-horizon
+    mode it continues to at ``label_x`` (same side, default geom.x), where
+    the linearised profile still describes the background (see
+    :func:`_near_horizon_labels`): far out the linear model can flip the
+    norm and direction of a mode together, while its flux constant and flux
+    direction do not change.
     """
     x = geom.x
     side = _side(x)
     kj = rep._kj
-    out = []
+    out, far_k = [], []
     roots = dd.roots(x, dps)
     for i, s in enumerate(geom.crit):
         b = -1
@@ -229,22 +354,26 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             if abs(kb.imag) > 1e-12 * max(1.0, abs(kb)):
                 kind = "growing" if (kb.imag < 0) == (x > 0) else "decaying"
                 out.append(ModeData(i, Mode(side, "none", 0, kind, complex(kb), origin="branch point", x=x), None, b))
+                far_k.append(None)
                 continue
-            # long-wavelength modes keep the labels of the asymptotic region
             m = _label(side, mpmath.mpf(float(mpmath.re(r))), x, dd, "branch point")
             m.k = complex(kb)
+            far_k.append(float(mpmath.re(r)))
             c, loop = _branch_constant(rep, geom, i, b, dd, dps)
-            out.append(ModeData(i, m, c, b, loop=loop))
+            out.append(ModeData(i, m, c, b, loop=loop, far=replace(m, data={})))
         else:
             r = min(roots, key=lambda z: abs(complex(z) - s))
             rc = complex(r)
             if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
-                m, far = _physical_label(side, rc.real, x, label_x, dd, "saddle")
+                m = _label(side, mpmath.mpf(rc.real), x, dd, "saddle")
                 m.k = rc
-                out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1, far=far))
+                far_k.append(rc.real)
+                out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1, far=replace(m, data={})))
             else:
                 kind = "growing" if (rc.imag < 0) == (x > 0) else "decaying"
                 out.append(ModeData(i, Mode(side, "none", 0, kind, rc, origin="saddle", x=x), None, -1))
+                far_k.append(None)
+    _near_horizon_labels(out, far_k, x, label_x, dd)
     return out
 
 

@@ -28,6 +28,11 @@ class Mode:
         "saddle", "branch point" or "plane wave".
     name : str
         Short label ``<side>-<direction><norm>``, e.g. ``ext-out+``.
+    data : dict
+        Extra information.  Contour modes whose labels were read nearer the
+        horizon than k (the far-region wavenumber where the amplitude is read)
+        hold that near-horizon root in ``data["near_horizon"]`` (keys k, x,
+        group_velocity).
     """
     side: str
     direction: str

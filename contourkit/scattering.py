@@ -40,6 +40,7 @@ import warnings
 import mpmath
 import numpy as np
 
+from . import phase
 from .bogoliubov import hawking_figures
 from .decompose import coefficient, decompose
 from .errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
@@ -95,6 +96,31 @@ def _asymptotic_x(rep, sign):
                           "branch points; the model may have coalescing saddles at all positions")
 
 
+def _sheet_factors(rep, crit_a, crit_b):
+    """Per critical point, the factor that refers a thimble at crit_b to the sheet of the same thimble at crit_a.
+
+    A thimble carries the cut-plane branch at its critical point.  A critical
+    point next to a branch point can sit on that point's cut (for x > 0 it
+    lies at angle ~ arg(i nu) from it, i.e. on a downward cut when Im nu ~ 0)
+    and cross it as x doubles; the thimble is then the same path on the
+    neighbouring sheet, ``J_b = exp(-2 pi i m.nu) J_a``, and its coefficient
+    changes by ``exp(2 pi i m.nu)`` without any Stokes phenomenon.  The
+    critical points move radially between X and 2X in the asymptotic region,
+    so the logs are continued along the straight segment from crit_a to crit_b.
+    """
+    out = np.ones(len(crit_b), dtype=complex)
+    if not rep._kj.size or len(crit_a) != len(crit_b):
+        return out
+    for i, (a, b) in enumerate(zip(crit_a, crit_b)):
+        la = phase.cut_plane_logs(rep, a)[0]
+        pts = a + (b - a) * np.linspace(0.0, 1.0, 9)[1:]
+        for p, q in zip(np.concatenate([[a], pts[:-1]]), pts):
+            la = phase.continue_logs(rep, p, la, q)
+        m = np.round((la - phase.cut_plane_logs(rep, b)[0]).imag / (2 * math.pi))
+        out[i] = np.exp(-2j * math.pi * complex(m @ rep._nu))
+    return out
+
+
 def _side_geometry(rep, contours, dd, sign, kappa):
     """Double-precision geometry on one side: thimbles, crossings, stability at 2X."""
     X = _asymptotic_x(rep, sign)
@@ -104,11 +130,13 @@ def _side_geometry(rep, contours, dd, sign, kappa):
         # descent arms are needed only where a loop constant is read off (long-wavelength modes)
         return bool(kj.size) and float(np.min(np.abs(s - kj))) < 0.05 * max(1.0, float(np.max(np.abs(kj))))
     g0, coeffs = decompose(rep, contours, X, descent=near_branch)
-    _, cf2s = decompose(rep, contours, 2 * X, descent=False)
+    g2, cf2s = decompose(rep, contours, 2 * X, descent=False)
+    sheet = _sheet_factors(rep, g0.crit, g2.crit)
     for c, cf2 in enumerate(cf2s):
-        a = sorted((i, round(abs(n), 6)) for n, i, _ in coeffs[c])
-        b = sorted((i, round(abs(n), 6)) for n, i, _ in cf2)
-        if a != b:
+        a = sorted((i, abs(n)) for n, i, _ in coeffs[c])
+        b = sorted((i, abs(n * sheet[i])) for n, i, _ in cf2)
+        if [i for i, _ in a] != [i for i, _ in b] or any(abs(p - q) > 1e-6 * max(1.0, p, q)
+                                                         for (_, p), (_, q) in zip(a, b)):
             raise ScatteringError(f"the thimble decomposition changes between x = {X} and {2 * X}: the "
                                   f"asymptotic region is not reached (Stokes phenomenon); report this model")
     lab = sign * min(abs(X), 0.1 / kappa) if kappa else None

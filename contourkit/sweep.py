@@ -34,6 +34,7 @@ References
    connection forms).
 """
 import cmath
+from dataclasses import replace
 
 import mpmath
 import numpy as np
@@ -42,7 +43,8 @@ import sympy as sp
 from . import phase
 from .decompose import coefficient
 from ._sym import mp_value
-from .modes import DispersionDerivatives, ModeData, _label, _track_root, branch_constant_at, saddle_constant_at
+from .modes import (DispersionDerivatives, ModeData, _flux_sign, _label, branch_constant_at, saddle_constant_at,
+                    turning_mode)
 from .results import Mode
 from .saddles import polish
 
@@ -284,6 +286,7 @@ class _Numeric:
     """dD/dk and dD/domega of a frame in double precision (for mode labels)."""
 
     def __init__(self, frame, family):
+        self.s0_np, self.s1_np = frame.s0_np, frame.s1_np
         self._d0, self._d1 = np.polyder(frame.s0_np), np.polyder(frame.s1_np)
         self._f, self._w = family.dDdw_np, float(frame.omega_ext)
 
@@ -337,7 +340,6 @@ class SideState:
     def __init__(self, X, xg, crit, logs, modes, coeffs, label_x):
         self.X, self.xg, self.crit, self.logs = X, xg, np.asarray(crit), [np.asarray(v) for v in logs]
         self.modes, self.coeffs, self.label_x = modes, coeffs, label_x
-        self.near = {}
 
 
 def _follow_side(frame, side, kj_old):
@@ -370,74 +372,100 @@ def _follow_side(frame, side, kj_old):
 
 
 def _relabel(frame, side, crit):
-    """Mode templates at the new frequency: kinds and far labels must not change."""
+    """Mode templates at the new frequency, labelled by the rule of modes.catalogue.
+
+    Kinds and far labels (at X) must not change.  The near-horizon root of
+    each propagating mode (``mode.data["near_horizon"]``) is followed in
+    omega: the real root at the labelling position nearest to the previous
+    one on the same branch (same flux direction; it must stand out from the
+    others), or, for a mode that turns back before the labelling position,
+    its turning point (modes.turning_mode).  A mode whose near-horizon root
+    disappears (two roots meeting at the labelling position) turns back from
+    then on, if no other near-horizon root is left unclaimed.  The labels are
+    then those of the near-horizon root when its norm differs from the far
+    mode's, as in modes._near_label_plan; any change of the final labels
+    against the previous frequency stops the following (traced afresh).
+    """
     X = side.X
     sd = "exterior" if X > 0 else "interior"
     roots = frame.roots_np(X)
     kj = frame._kj
-    out = []
+    out, prop = [], []
     for md in side.modes:
         m0 = md.mode
         if md.branch >= 0:
             kb = kj[md.branch]
-            if abs(kb.imag) > 1e-12 * max(1.0, abs(kb)):
-                kind = "growing" if (kb.imag < 0) == (X > 0) else "decaying"
-                if kind != m0.kind:
-                    raise Lost("a long-wavelength mode changed kind")
-                out.append(ModeData(md.index, Mode(sd, "none", 0, kind, complex(kb), origin="branch point", x=X),
-                                    None, md.branch))
-                continue
-            r = roots[int(np.argmin(np.abs(roots - kb)))]
-            m = _label(sd, r.real, X, frame.np, "branch point")
-            if m0.kind != "propagating" or (m.direction, m.norm) != (m0.direction, m0.norm):
-                raise Lost("a long-wavelength mode changed its labels")
-            m.k = complex(kb)
-            out.append(ModeData(md.index, m, None, md.branch, loop=md.loop))
-            continue
-        s = crit[md.index]
-        rc = complex(roots[int(np.argmin(np.abs(roots - s)))])
-        real = abs(rc.imag) <= 1e-9 * max(1.0, abs(rc))
-        if not real:
-            kind = "growing" if (rc.imag < 0) == (X > 0) else "decaying"
+            k_far = roots[int(np.argmin(np.abs(roots - kb)))]
+            propagating = abs(kb.imag) <= 1e-12 * max(1.0, abs(kb))
+            k_mode, origin = complex(kb), "branch point"
+        else:
+            k_far = complex(roots[int(np.argmin(np.abs(roots - crit[md.index])))])
+            propagating = abs(k_far.imag) <= 1e-9 * max(1.0, abs(k_far))
+            k_mode, origin = k_far, "saddle"
+        if not propagating:
+            kind = "growing" if (k_mode.imag < 0) == (X > 0) else "decaying"
             if kind != m0.kind:
-                raise Lost("a short-wavelength mode changed kind")
-            out.append(ModeData(md.index, Mode(sd, "none", 0, kind, rc, origin="saddle", x=X), None, -1))
+                raise Lost("a mode changed kind")
+            out.append(ModeData(md.index, Mode(sd, "none", 0, kind, k_mode, origin=origin, x=X), None, md.branch))
             continue
         if m0.kind != "propagating":
-            raise Lost("a short-wavelength mode became propagating")
-        far = _label(sd, rc.real, X, frame.np, "saddle")
+            raise Lost("a mode became propagating")
+        far = _label(sd, k_far.real, X, frame.np, origin)
         if (far.direction, far.norm) != (md.far.direction, md.far.norm):
-            raise Lost("a short-wavelength mode changed its far labels")
-        m = far
-        if m0.x != X:
-            # labelled near the horizon: the root there, followed in omega (or tracked in again)
-            r, xl = _near_root(frame, side, md.index, rc.real)
-            m = _label(sd, r, xl, frame.np, "saddle")
-            if (m.direction, m.norm) != (m0.direction, m0.norm):
-                raise Lost("a short-wavelength mode changed its near-horizon labels")
-        m.k = rc
-        out.append(ModeData(md.index, m, None, -1, far=far))
+            raise Lost("a mode changed its far labels")
+        m = replace(far, data={})
+        m.k = k_mode
+        out.append(ModeData(md.index, m, None, md.branch, loop=md.loop, far=far))
+        prop.append((len(out) - 1, m0, far, k_far.real))
+    if side.label_x is not None:
+        for pos, near in _near_modes(frame, side, prop, sd).items():
+            m, m0, far = out[pos].mode, side.modes[pos].mode, out[pos].far
+            m.data["near_horizon"] = {"k": near.k, "x": near.x, "group_velocity": near.group_velocity}
+            if near.norm != far.norm:
+                m.norm, m.direction, m.group_velocity, m.x = near.norm, near.direction, near.group_velocity, near.x
+            if (m.norm, m.direction) != (m0.norm, m0.direction):
+                raise Lost("a mode changed its near-horizon labels")
     return out
 
 
-def _near_root(frame, side, i, k_far):
-    """Real root at the near-horizon labelling position for critical point i (cached on the side)."""
-    near = side.near.get(i)
-    if near is not None and near[1] == side.label_x:
-        c = np.polyadd(frame.s0_np, near[1] * frame.s1_np)
-        dc = np.polyder(c)
-        r = complex(near[0])
-        for _ in range(30):
-            step = np.polyval(c, r) / np.polyval(dc, r)
-            r -= step
-            if abs(step) < 1e-14 * (1 + abs(r)):
-                break
-        if abs(r.imag) < 1e-10 * (1 + abs(r)) and abs(r - near[0]) < 0.1 * (1 + abs(near[0])):
-            side.near[i] = (r.real, near[1])
-            return r.real, near[1]
-    r, xl = _track_root(frame, k_far, side.X, side.label_x)
-    side.near[i] = (complex(r).real, float(xl))
-    return complex(r).real, float(xl)
+def _near_modes(frame, side, prop, sd):
+    """Near-horizon Mode of every propagating mode (position in the side's list -> Mode); see _relabel."""
+    lx = side.label_x
+    rts = frame.roots_np(lx)
+    rts = rts[np.abs(rts.imag) <= 1e-9 * np.maximum(1.0, np.abs(rts))].real
+    near = [_label(sd, float(r), lx, frame.np, "near horizon") for r in rts]
+    claimed, out, lost = set(), {}, []
+    for pos, m0, far, k_far in prop:
+        nh = m0.data.get("near_horizon")
+        if nh is None:
+            raise Lost("a mode has no near-horizon root to follow")
+        if nh["x"] != lx:
+            continue
+        same = [q for q in range(len(near)) if _flux_sign(near[q]) == _flux_sign(far)]
+        if not same:
+            lost.append((pos, nh, far))
+            continue
+        d = sorted((abs(near[q].k.real - nh["k"].real), q) for q in same)
+        if d[0][0] > 0.1 * (1 + abs(nh["k"])):
+            lost.append((pos, nh, far))
+            continue
+        if (len(d) > 1 and d[1][0] < 3 * d[0][0]) or d[0][1] in claimed:
+            raise Lost("the near-horizon root cannot be followed unambiguously")
+        claimed.add(d[0][1])
+        out[pos] = near[d[0][1]]
+    if lost and len(claimed) < len(near):
+        raise Lost("a near-horizon root disappeared while others are unclaimed")
+    for pos, m0, far, k_far in prop:
+        nh = m0.data["near_horizon"]
+        if nh["x"] == lx and pos not in {p for p, _, _ in lost}:
+            continue
+        # a mode that turns back before the labelling position: follow (or find) its turning point
+        m = turning_mode(frame.np, sd, nh["k"].real, nh["x"] if nh["x"] != lx else 1.001 * lx, side.X,
+                         -_flux_sign(far))
+        if m is None or abs(m.x) <= abs(lx):
+            raise Lost("the turning point of a mode could not be followed")
+        out[pos] = m
+    return out
 
 
 def follow(family, state, omega):
@@ -490,9 +518,7 @@ def _step(family, state, omega):
     for side in state["sides"]:
         crit, logs = _follow_side(frame, side, state["kj"])
         modes = _relabel(frame, side, crit)
-        new = SideState(side.X, side.xg, crit, logs, modes, side.coeffs, side.label_x)
-        new.near = dict(side.near)
-        sides.append(new)
+        sides.append(SideState(side.X, side.xg, crit, logs, modes, side.coeffs, side.label_x))
     return frame, dict(state, kj=frame._kj.copy(), q0=frame._Q[0], sides=sides, omega=omega)
 
 

@@ -197,3 +197,32 @@ def test_spectrum_in_parallel_gives_the_same_rows():
     assert [r["thermal_ratio"] for r in a] == [r["thermal_ratio"] for r in b]
     with pytest.raises(ck.InputError, match="workers"):
         m.spectrum(ws, workers=0)
+
+
+def test_decomposition_check_follows_a_thimble_across_its_cut():
+    """A critical point that crosses its branch point's cut between X and 2X is not a Stokes jump.
+
+    Dielectric front (linear profile) at omega = 2 T_H: on the exterior the critical point of
+    the v_R loop sits at angle ~ arg(i nu) ~ -pi/2 from its branch point (Im nu ~ 0.006), on the
+    downward cut, and crosses it as x doubles.  The thimble is the same path on the next sheet of
+    (k - k_b)^nu, so its coefficient changes by exactly exp(2 pi i m nu) (analytic continuation
+    of the power, no source needed) and the other coefficients do not change.
+    """
+    from contourkit.decompose import decompose
+    from contourkit.scattering import _asymptotic_x, _sheet_factors
+    m = ck.catalogue.dielectric_front(linear=True)
+    rep = m.mode_equation(2 * m.hawking_temperature).fourier()
+    contours = rep.basis()
+    X = _asymptotic_x(rep, +1)
+    g1, c1 = decompose(rep, contours, X, descent=False)
+    g2, c2 = decompose(rep, contours, 2 * X, descent=False)
+    f = _sheet_factors(rep, g1.crit, g2.crit)
+    moved = [i for i in range(len(f)) if abs(f[i] - 1) > 1e-12]
+    assert len(moved) == 1
+    j = int(np.argmin(np.abs(rep._kj - g1.crit[moved[0]])))
+    e = np.exp(2j * math.pi * rep._nu[j])
+    assert min(abs(f[moved[0]] - e), abs(f[moved[0]] - 1 / e)) < 1e-12
+    for a, b in zip(c1, c2):
+        assert sorted(i for _, i, _ in a) == sorted(i for _, i, _ in b)
+        na, nb = {i: n for n, i, _ in a}, {i: n * f[i] for n, i, _ in b}
+        assert all(abs(abs(na[i]) / abs(nb[i]) - 1) < 1e-9 for i in na)
