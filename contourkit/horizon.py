@@ -249,7 +249,7 @@ class HorizonModel:
     def __getstate__(self):
         # caches hold lambdified functions (not picklable); workers rebuild them
         state = dict(self.__dict__)
-        for key in ("_eq_cache", "_dDdw_cache", "_direct_cache"):
+        for key in ("_eq_cache", "_dDdw_cache", "_direct_cache", "_family_cache"):
             state.pop(key, None)
         state["_eq_cache"] = {}
         return state

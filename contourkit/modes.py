@@ -152,6 +152,14 @@ def _label(side, k, x, dd, origin):
                 kind="propagating", k=complex(k), group_velocity=vg, origin=origin, x=x)
 
 
+def _horner(c, z):
+    """Polynomial value by Horner's rule for a short list of Python numbers (faster than np.polyval)."""
+    v = 0.0
+    for a in c:
+        v = v * z + a
+    return v
+
+
 def turning_mode(dd, side, k, x, x_far, dk_sign):
     """Labels of a mode that turns back at a turning point near (k, x), read just outside it.
 
@@ -166,14 +174,16 @@ def turning_mode(dd, side, k, x, x_far, dk_sign):
     s0, s1 = np.real(dd.s0_np), np.real(dd.s1_np)
     d0, d1 = np.polyder(s0), np.polyder(s1)
     dd0, dd1 = np.polyder(d0), np.polyder(d1)
+    c0, c1, e0, e1, f0, f1 = ([float(v) for v in a] for a in (s0, s1, d0, d1, dd0, dd1))
     kt, xt = float(k), float(x)
     for _ in range(200):
-        F1 = np.polyval(s0, kt) + xt * np.polyval(s1, kt)
-        F2 = np.polyval(d0, kt) + xt * np.polyval(d1, kt)
-        a, b = F2, np.polyval(s1, kt)
-        c, d = np.polyval(dd0, kt) + xt * np.polyval(dd1, kt), np.polyval(d1, kt)
+        vs1, vd1 = _horner(c1, kt), _horner(e1, kt)
+        F1 = _horner(c0, kt) + xt * vs1
+        F2 = _horner(e0, kt) + xt * vd1
+        a, b = F2, vs1
+        c, d = _horner(f0, kt) + xt * _horner(f1, kt), vd1
         det = a * d - b * c
-        if det == 0 or not np.isfinite(det):
+        if det == 0 or not math.isfinite(det):
             return None
         dk, dx = (F1 * d - b * F2) / det, (a * F2 - c * F1) / det
         damp = min(1.0, 0.05 * (1 + abs(x)) / max(abs(dx), 1e-300), 0.05 * (1 + abs(k)) / max(abs(dk), 1e-300))
@@ -210,11 +220,12 @@ def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
     d0, d1 = np.polyder(s0), np.polyder(s1)
     for t in range(1, steps + 1):
         x = x_from * (x_to / x_from) ** (t / steps)
-        c, dc = np.polyadd(s0, x * s1), np.polyadd(d0, x * d1)
+        c = [complex(v) for v in np.polyadd(s0, x * s1)]
+        dc = [complex(v) for v in np.polyadd(d0, x * d1)]
         rn = r
         converged = False
         for _ in range(60):
-            step = np.polyval(c, rn) / np.polyval(dc, rn)
+            step = _horner(c, rn) / _horner(dc, rn)
             rn -= step
             if abs(step) < 1e-14 * (1 + abs(rn)):
                 converged = True

@@ -260,10 +260,13 @@ def _state(rep, contours, sides, mods):
     return {"kj": rep._kj.copy(), "q0": rep._Q[0], "sides": out, "terms": [C.terms for C in contours]}
 
 
-def _finish(model, constants, n_c, w, target, kappa, user_dps, extra):
-    """Escalate the working precision until two agree, then build the result."""
-    work = target + 10
-    prev = None
+def _finish(model, constants, n_c, w, target, kappa, user_dps, extra, start=None):
+    """Escalate the working precision until two agree, then build the result.
+
+    ``start = (prev, work)``: a result at a lower precision (same tuple as
+    _assemble's) to compare the first evaluation at ``work`` digits with.
+    """
+    prev, work = start if start is not None else (None, target + 10)
     for _ in range(8):
         cur = _assemble(model, constants, n_c, w, work)
         if prev is not None and _settled(prev, cur, target, work):

@@ -19,6 +19,7 @@ References
 import math
 import warnings
 
+import mpmath
 import numpy as np
 
 from .errors import AccuracyWarning, InputError, ScatteringError
@@ -38,17 +39,28 @@ def _continued(model, family, state, omega, dps, geometry=None):
         from . import fastpath
         ef = fastpath.ExtFrame(frame)
         data = [fastpath.side_data(frame, ef, side, state["terms"]) for side in new["sides"]]
-        out = fastpath.assemble(model, data, n_c, w, 10.0 ** (-target)) if None not in data else None
-        if out is not None and out[4] < 1e-11:
+        out = fastpath.assemble(model, data, n_c, w) if None not in data else None
+        if out is not None and out[4] < 1e-11 and out[6] <= 10.0 ** (-target):
             in_modes, out_modes, grow, S, resid, fig, bound = out
             new["omega"] = w
             return _result(w, in_modes, out_modes, S, resid, fig, float(model.kappa), dps, fastpath.DIGITS,
                            extra=dict(extra, arithmetic="numpy extended precision", growing=grow,
                                       target_digits=target), error=max(resid, bound)), new
+        if out is not None and out[4] < 1e-6:
+            # not accurate enough by its bound: it still serves as the lower of the two precisions
+            # that must agree, with the working precision raised by the digits the bound says are lost
+            in_modes, out_modes, grow, S, resid, fig, bound = out
+            lost = max(0.0, math.log10(bound / fastpath.U)) if bound > 0 else 0.0
+            prev = (in_modes, out_modes, grow, mpmath.matrix(S.tolist()), resid, fig, lost)
+            start = (prev, target + 10 + int(math.ceil(lost)))
+        else:
+            start = None
+    else:
+        start = None
     try:
         with warnings.catch_warnings():
             warnings.simplefilter("error", AccuracyWarning)
-            res = _finish(model, constants, n_c, w, target, float(model.kappa), dps, extra)
+            res = _finish(model, constants, n_c, w, target, float(model.kappa), dps, extra, start=start)
     except (ScatteringError, AccuracyWarning, ZeroDivisionError) as e:
         raise Lost(str(e))
     new["omega"] = w
@@ -80,7 +92,7 @@ class Spectrum(RowTable):
 def _sweep(args):
     """scatter() at increasing frequencies, following the traced geometry in omega where it can."""
     model, ws, digits, follow, progress = args
-    from .sweep import Family, Lost
+    from .sweep import Lost, family as family_of
     family, state, out = None, None, []
 
     def fast(st, w):
@@ -88,7 +100,7 @@ def _sweep(args):
         nonlocal family
         try:
             if family is None:
-                family = Family(model)
+                family = family_of(model)
             return _continued(model, family, st, w, digits, geometry="traced")
         except Lost:
             return None
@@ -111,7 +123,7 @@ def _sweep(args):
             state = keep.get("state") if follow else None
             if state is not None and family is None:
                 try:
-                    family = Family(model)
+                    family = family_of(model)
                 except Lost:            # coefficients not polynomial in omega: trace every frequency
                     state = None
         out.append(res)

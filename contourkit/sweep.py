@@ -59,6 +59,15 @@ class _TooFar(Lost):
     """The step in omega is too large to match points one to one (follow takes smaller steps)."""
 
 
+def family(model):
+    """The model's Family, derived once and cached on the model (dropped when the model is pickled)."""
+    fam = getattr(model, "_family_cache", None)
+    if fam is None:
+        fam = Family(model)
+        model._family_cache = fam
+    return fam
+
+
 class Family:
     """The near-horizon equation of a model with omega symbolic: coefficient lists of A and B in k."""
 
