@@ -43,8 +43,8 @@ import sympy as sp
 from . import phase
 from .decompose import coefficient
 from ._sym import mp_value
-from .modes import (DispersionDerivatives, ModeData, _flux_sign, _label, branch_constant_at, saddle_constant_at,
-                    turning_mode)
+from .modes import (DispersionDerivatives, ModeData, _flux_sign, _horner, _label, branch_constant_at,
+                    saddle_constant_at, turning_mode)
 from .results import Mode
 from .saddles import polish
 
@@ -296,11 +296,12 @@ class _Numeric:
 
     def __init__(self, frame, family):
         self.s0_np, self.s1_np = frame.s0_np, frame.s1_np
-        self._d0, self._d1 = np.polyder(frame.s0_np), np.polyder(frame.s1_np)
+        self._d0 = [complex(v) for v in np.polyder(frame.s0_np)]
+        self._d1 = [complex(v) for v in np.polyder(frame.s1_np)]
         self._f, self._w = family.dDdw_np, float(frame.omega_ext)
 
     def dDdk(self, k, x):
-        return np.polyval(self._d0, k) + x * np.polyval(self._d1, k)
+        return _horner(self._d0, k) + x * _horner(self._d1, k)
 
     def dDdw(self, k, x):
         return complex(self._f(k, x, self._w))
@@ -318,7 +319,7 @@ def _quotient(num, den):
 
 def _polished_roots(c):
     """np.roots with one Newton step (double precision)."""
-    c = np.trim_zeros(c, "f")
+    c = c[int(np.argmax(c != 0)):]
     r = np.roots(c)
     d = np.polyval(np.polyder(c), r)
     return np.where(d != 0, r - np.polyval(c, r) / np.where(d != 0, d, 1), r)
