@@ -36,7 +36,6 @@ References
 """
 import math
 
-import mpmath
 import numpy as np
 
 from .bogoliubov import hawking_figures
