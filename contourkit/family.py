@@ -75,8 +75,14 @@ class Family:
                 for e, c in enumerate(r):
                     self.ext[t, i, e] = _to_ext(c)
         X, W = sp.Symbol("x"), sp.Symbol("omega")
-        Dw = sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin))
-        self.dDdw_np = sp.lambdify((K, X, W), sp.diff(Dw, W), "numpy")
+        Dw = sp.expand(sp.diff(sum((a + b * X) * (sp.I * K) ** m for m, (a, b) in enumerate(model._lin)), W))
+        # dD/domega = P0(k) + x P1(k): coefficient lists (highest power of k first) as functions of omega
+        nk = sp.degree(Dw, K) + 1 if Dw.has(K) else 1
+        if sp.degree(Dw, X) > 1:
+            raise Lost("dD/domega is not linear in x")
+        rows = [[Dw.coeff(X, q).coeff(K, p) if p else Dw.coeff(X, q).subs(K, 0) for p in range(nk - 1, -1, -1)]
+                for q in (0, 1)]
+        self.dDdw_coeffs = sp.lambdify(W, rows, "numpy")
         self.model = model
 
     def ext_AB(self, w):
@@ -269,13 +275,13 @@ class _Numeric:
         self.s0_np, self.s1_np = frame.s0_np, frame.s1_np
         self._d0 = [complex(v) for v in np.polyder(frame.s0_np)]
         self._d1 = [complex(v) for v in np.polyder(frame.s1_np)]
-        self._f, self._w = family.dDdw_np, float(frame.omega_ext)
+        self._w0, self._w1 = ([complex(v) for v in r] for r in family.dDdw_coeffs(float(frame.omega_ext)))
 
     def dDdk(self, k, x):
         return _horner(self._d0, k) + x * _horner(self._d1, k)
 
     def dDdw(self, k, x):
-        return complex(self._f(k, x, self._w))
+        return _horner(self._w0, k) + x * _horner(self._w1, k)
 
 
 def _quotient(num, den):
