@@ -151,7 +151,14 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
         du = min(geo * abs(d1), 1.0 + 0.25 * u, 2.0 if not ascent else 1e300)
         du = max(du, 1e-14 * max(1.0, u))
         u = u + du
-        k = k + (sgn * du) / d1
+        # ascent arms (only crossed with contours, no quadrature nodes on them): second-order
+        # predictor from the quadratic Taylor model, so the corrector needs fewer Newton steps;
+        # descent arms keep the first-order predictor their node placement was tuned with
+        h = (sgn * du) / d1
+        if ascent:
+            h2 = h - d2 * h * h / (2 * d1)
+            h = h2 if abs(h2 - h) < 0.5 * abs(h) else h
+        k = k + h
         logs = P.continue_logs(ks[-1], lg[-1], k)
     else:
         end = "stalled"

@@ -226,14 +226,22 @@ def test_loop_through_another_singular_point():
 
 # ---------------------------------------------------------------------------- engine bugs found
 # Shrunk by hypothesis from the property test above (random ODEs), reported to the lead; strict
-# xfail: an XPASS means the bug was fixed and the marker should go.
-@pytest.mark.xfail(raises=ck.AccuracyError, strict=True,
-                   reason="steepest-ascent arm stalls next to the saddle (paths.trace_arm)")
-def test_bug_ascent_path_stalls():
-    """y'' + 0.5 y' + 2 x y - i x y' = 0 at x = 0.4 (a = [0, 0.5, 1], b = [2, -i, 0])."""
+# xfail: an XPASS means the bug was fixed and the marker should go (then the case stays as a test).
+def test_ascent_path_next_to_the_saddle():
+    """y'' + 0.5 y' + 2 x y - i x y' = 0 at x = 0.4 (a = [0, 0.5, 1], b = [2, -i, 0]).
+
+    Once a strict-xfail reproducer: the steepest-ascent arm stalled next to the saddle
+    (paths.trace_arm); the second-order predictor of ascent arms fixed it.  Every basis
+    solution must satisfy the equation, L phi = 0 (common practice), to the accuracy of its values.
+    """
     rep = ck.ModeEquation.from_coefficients([0, 0.5, 1], [2, -1j, 0]).fourier()
+    x = 0.4
     for c in rep.basis():
-        rep.evaluate(c, 0.4)
+        y0, y1, y2 = (rep.evaluate(c, x, derivative=n) for n in range(3))
+        vals = [complex(v) for v in (y0, y1, y2)]
+        resid = vals[2] + 0.5 * vals[1] + 2 * x * vals[0] - 1j * x * vals[1]
+        scale = abs(vals[2]) + 0.5 * abs(vals[1]) + 2 * x * abs(vals[0]) + x * abs(vals[1])
+        assert abs(resid) <= 1e-9 * scale
 
 
 def test_overflow_refused():
