@@ -133,7 +133,6 @@ def _branch_log(ef, b, s, logs_d, X, loop):
 
 def side_data(frame, ef, side, terms):
     """(modes with constants, N, error bound of N, log-constant bounds) of one side; None if out of range."""
-    from .decompose import coefficient
     from .modes import ModeData
     mods, bounds = [], []
     for md in side.modes:
@@ -146,23 +145,36 @@ def side_data(frame, ef, side, terms):
             c, err = np.exp(r[0]), r[1]
         mods.append(ModeData(md.index, md.mode, c, md.branch, loop=md.loop, far=md.far))
         bounds.append(err)
-    nu = list(ef.nu)
+    rows, cols, wts, Mm = _crossing_arrays(side, terms, ef.nu.size)
+    z = Mm @ ef.nu if Mm.size else np.zeros(len(rows), dtype=C)
+    w = np.exp(2j * PI * z)
     N = np.zeros((len(mods), len(terms)), dtype=C)
     EN = np.zeros(N.shape)
-    cache = {}
-
-    def exp2(z):
-        # exp(2 pi i z) for z = m . nu; the sheet shifts m repeat, so values are cached per z
-        if z not in cache:                   # keyed by the exact (extended) value
-            cache[z] = np.exp(2j * PI * z)
-        return cache[z]
-    for col, (tm, cf) in enumerate(zip(terms, side.coeffs)):
-        for _, i, cl in cf:
-            N[i, col] = coefficient(None, tm, cl, nu, exp2)
-            for ti, _, m in cl:
-                z = sum(mi * nj for mi, nj in zip(m, nu)) if m else 0
-                EN[i, col] += abs(complex(tm[ti][0])) * float(abs(exp2(z))) * U * (4 + 2 * math.pi * abs(complex(z)))
+    np.add.at(N, (rows, cols), wts * w)
+    np.add.at(EN, (rows, cols), np.abs(wts) * np.abs(w).astype(float) * U * (4 + 2 * math.pi * np.abs(z).astype(float)))
     return mods, N, EN, bounds
+
+
+def _crossing_arrays(side, terms, J):
+    """The side's crossings as arrays (cached on it): N[i, c] = sum of coef * sign * exp(2 pi i m.nu).
+
+    The same sums as decompose.coefficient for contours without half-line terms
+    (the only ones a followed state has).
+    """
+    cached = getattr(side, "_crossings", None)
+    if cached is None:
+        rows, cols, wts, ms = [], [], [], []
+        for col, (tm, cf) in enumerate(zip(terms, side.coeffs)):
+            for _, i, cl in cf:
+                for ti, sign, m in cl:
+                    rows.append(i)
+                    cols.append(col)
+                    wts.append(complex(tm[ti][0]) * sign)
+                    ms.append(list(m) if m else [0] * J)
+        cached = (np.array(rows, dtype=int), np.array(cols, dtype=int), np.array(wts, dtype=C),
+                  np.array(ms, dtype=R).reshape(len(rows), J))
+        side._crossings = cached
+    return cached
 
 
 def _solve(B, rhs):

@@ -242,7 +242,9 @@ def _step(family, state, omega):
     for side in state["sides"]:
         crit, logs = _follow_side(frame, side, state["kj"])
         modes = _relabel(frame, side, crit)
-        sides.append(SideState(side.X, side.xg, crit, logs, modes, side.coeffs, side.label_x))
+        new = SideState(side.X, side.xg, crit, logs, modes, side.coeffs, side.label_x)
+        new._crossings = getattr(side, "_crossings", None)     # the same integers (fastpath cache)
+        sides.append(new)
     return frame, dict(state, kj=frame._kj.copy(), q0=frame._Q[0], sides=sides, omega=omega)
 
 
