@@ -120,10 +120,15 @@ def _trim(c):
     return c
 
 
-def _polydiv(num, den):
-    num, den = list(num), _trim(den)
+def quotient(num, den):
+    """Quotient of polynomial division, coefficients highest power first (den without leading zeros).
+
+    Plain arithmetic on the coefficients, so it serves mpmath lists and numpy
+    arrays of any precision alike.
+    """
+    num = list(num)
     if len(num) < len(den):
-        return [mpmath.mpf(0)]
+        return [den[0] * 0]
     q = []
     for i in range(len(num) - len(den) + 1):
         f = num[i] / den[0]
@@ -159,7 +164,7 @@ class Frame(DispersionDerivatives):
         self.s0_np, self.s1_np = A + 0.5j * Bp, B
         self._B_np, self._N_np = B, 1j * A - Bp
         Bt = np.trim_zeros(B, "f")
-        q = _quotient(self._N_np, Bt)
+        q = np.array(quotient(self._N_np, Bt), dtype=complex)
         self._Q = np.trim_zeros(np.polyint(q), "f") if np.any(q) else np.zeros(0, complex)
         kj = np.roots(Bt) if Bt.size > 1 else np.zeros(0, complex)
         dB = np.polyder(Bt) if Bt.size > 1 else np.zeros(1, complex)
@@ -211,7 +216,7 @@ class Frame(DispersionDerivatives):
             A, B = self._AB()
             N = self._N(A, B)
             Bt = _trim(B)
-            q = _polydiv(N, Bt)
+            q = quotient(N, Bt)
             Q = [c / (len(q) - i) for i, c in enumerate(q)] + [mpmath.mpf(0)] if any(q) else []
             Q = _trim(Q) if Q else []
             kj, nu = [], []
@@ -282,16 +287,6 @@ class _Numeric:
 
     def dDdw(self, k, x):
         return _horner(self._w0, k) + x * _horner(self._w1, k)
-
-
-def _quotient(num, den):
-    """Quotient of polynomial division (coefficient arrays, highest power first)."""
-    num = np.array(num, dtype=complex)
-    q = np.zeros(max(num.size - den.size + 1, 1), dtype=complex)
-    for i in range(num.size - den.size + 1):
-        q[i] = num[i] / den[0]
-        num[i:i + den.size] -= q[i] * den
-    return q
 
 
 def _polished_roots(c):

@@ -39,6 +39,8 @@ import math
 import numpy as np
 
 from .bogoliubov import hawking_figures
+from .family import quotient
+from .labels import _horner
 
 R = np.longdouble
 C = np.clongdouble
@@ -50,13 +52,6 @@ PI = R("3.14159265358979323846264338327950288")
 def _polyder(c):
     n = c.size - 1
     return c[:-1] * np.arange(n, 0, -1).astype(R) if n > 0 else np.zeros(1, dtype=C)
-
-
-def _polyval(c, z):
-    v = c[0] + 0 * z
-    for a in c[1:]:
-        v = v * z + a
-    return v
 
 
 class ExtFrame:
@@ -71,17 +66,11 @@ class ExtFrame:
         dB = _polyder(B)
         kj = frame._kj.astype(C)
         for _ in range(3):
-            kj = kj - _polyval(B, kj) / _polyval(dB, kj)
+            kj = kj - _horner(B, kj) / _horner(dB, kj)
         self.kj = kj
-        self.nu = _polyval(N, kj) / _polyval(dB, kj)
+        self.nu = _horner(N, kj) / _horner(dB, kj)
         # Q' = quotient of N by B; Q with zero constant term
-        num = N.copy()
-        q = []
-        for i in range(num.size - B.size + 1):
-            f = num[i] / B[0]
-            q.append(f)
-            num[i:i + B.size] -= f * B
-        q = np.array(q, dtype=C)
+        q = np.array(quotient(N, B), dtype=C) if N.size >= B.size else np.zeros(0, dtype=C)
         self.Q = np.concatenate([q / np.arange(q.size, 0, -1).astype(R), np.zeros(1, dtype=C)]) if q.size else q
 
 
@@ -96,8 +85,8 @@ def _logs(kj, logs_double, k):
 def _re_sum(Q, k, logs, nu):
     """Re[Q(k) + sum nu_j logs_j] at real k and its rounding bound (only real parts of Q contribute)."""
     qr = Q.real
-    q = _polyval(qr.astype(C), k).real if Q.size else R(0)
-    eq = U * (Q.size + 2) * float(_polyval(np.abs(qr).astype(C), abs(k)).real) if Q.size else 0.0
+    q = _horner(qr.astype(C), k).real if Q.size else R(0)
+    eq = U * (Q.size + 2) * float(_horner(np.abs(qr).astype(C), abs(k)).real) if Q.size else 0.0
     t = logs * nu
     et = 4 * U * float(np.sum(np.abs(logs.real * nu.real) + np.abs(logs.imag * nu.imag)))
     return q + np.sum(t.real), eq + et
@@ -107,7 +96,7 @@ def _saddle_log(ef, s, logs_d):
     kr = C(R(s.real))
     lr = _logs(ef.kj, np.asarray(logs_d) + np.log((s.real - ef.kj.astype(complex)) / (s - ef.kj.astype(complex))), kr)
     v, e = _re_sum(ef.Q, kr, lr, ef.nu)
-    s1 = abs(_polyval(ef.s1, kr))
+    s1 = abs(_horner(ef.s1, kr))
     lc = np.log(2 * PI) + v + np.log(s1) / 2
     return lc, e + U * (4 + abs(float(lc)))
 
@@ -121,7 +110,7 @@ def _branch_log(ef, b, s, logs_d, X, loop):
     ld = np.asarray(logs_d)[others] + np.log((complex(kb) - kd[others]) / (s - kd[others]))
     lb = _logs(ef.kj[others], ld, kb)
     val, e = _re_sum(ef.Q, C(kb.real), lb, ef.nu[others])
-    ds1 = abs(_polyval(_polyder(ef.s1), kb))
+    ds1 = abs(_horner(_polyder(ef.s1), kb))
     y = v.imag
     alpha = (PI / 2 if X > 0 else -PI / 2) + 2 * PI * loop[0]
     wind = abs(np.exp(2j * PI * v * loop[1]) - 1)

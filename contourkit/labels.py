@@ -28,6 +28,12 @@ def _side(x):
     return "exterior" if x > 0 else "interior"
 
 
+def growth_kind(k, x):
+    """"growing" or "decaying" for a complex wavenumber at x: growing away from the horizon
+    (Im k < 0 on the exterior x > 0, Im k > 0 on the interior)."""
+    return "growing" if (k.imag < 0) == (x > 0) else "decaying"
+
+
 def _label(side, k, x, dd, origin):
     """Mode labels for a real wavenumber k at x."""
     dk = complex(dd.dDdk(k, x))

@@ -46,7 +46,7 @@ import sympy as sp
 from . import phase
 from ._sym import exact, mp_value
 from .errors import ScatteringError
-from .labels import _label, _near_horizon_labels, _side
+from .labels import _label, _near_horizon_labels, _side, growth_kind
 from .results import Mode
 from .saddles import polish
 
@@ -168,7 +168,7 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             kb = kj[b]
             r = min(roots, key=lambda z: abs(complex(z) - kb))
             if abs(kb.imag) > 1e-12 * max(1.0, abs(kb)):
-                kind = "growing" if (kb.imag < 0) == (x > 0) else "decaying"
+                kind = growth_kind(kb, x)
                 out.append(ModeData(i, Mode(side, "none", 0, kind, complex(kb), origin="branch point", x=x), None, b))
                 far_k.append(None)
                 continue
@@ -186,7 +186,7 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
                 far_k.append(rc.real)
                 out.append(ModeData(i, m, _saddle_constant(rep, geom, i, dd, dps), -1, far=replace(m, data={})))
             else:
-                kind = "growing" if (rc.imag < 0) == (x > 0) else "decaying"
+                kind = growth_kind(rc, x)
                 out.append(ModeData(i, Mode(side, "none", 0, kind, rc, origin="saddle", x=x), None, -1))
                 far_k.append(None)
     _near_horizon_labels(out, far_k, x, label_x, dd)

@@ -42,7 +42,7 @@ import numpy as np
 from . import phase
 from .decompose import coefficient
 from .family import Family, Frame, Lost, _TooFar, _separation, family
-from .labels import _flux_sign, _label, turning_mode
+from .labels import _flux_sign, _label, growth_kind, turning_mode
 from .modes import ModeData, branch_constant_at, saddle_constant_at
 from .results import Mode
 
@@ -127,7 +127,7 @@ def _relabel(frame, side, crit):
             propagating = abs(k_far.imag) <= 1e-9 * max(1.0, abs(k_far))
             k_mode, origin = k_far, "saddle"
         if not propagating:
-            kind = "growing" if (k_mode.imag < 0) == (X > 0) else "decaying"
+            kind = growth_kind(k_mode, X)
             if kind != m0.kind:
                 raise Lost("a mode changed kind")
             out.append(ModeData(md.index, Mode(sd, "none", 0, kind, k_mode, origin=origin, x=X), None, md.branch))
