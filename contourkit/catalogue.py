@@ -1,4 +1,4 @@
-"""Ready models, each a :class:`contourkit.horizon.HorizonModel`.
+"""Ready models, each a :class:`contourkit.symbolic.horizon.HorizonModel`.
 
 Conventions (all models): ``phi ~ exp(-i omega t + i k x)``; units with the
 low-frequency wave speed c = 1; the fluid (or the front) moves towards -x
@@ -15,9 +15,9 @@ References
 """
 import sympy as sp
 
-from ._sym import exact
+from .symbolic._sym import exact
 from .errors import InputError
-from .horizon import HorizonModel
+from .symbolic.horizon import HorizonModel
 
 _w, _k, _x = sp.symbols("omega k x")
 

@@ -2,7 +2,7 @@
 
 Our own scenario: a wave approaching a turning point where its local
 wavenumber goes through zero, y'' - x y = 0 (the model file shipped as
-``contourkit.modelfile.example_path("airy")``).  Its k-space exponent is
+``contourkit.symbolic.modelfile.example_path("airy")``).  Its k-space exponent is
 E(k) = i k^3/3 and the contour integrals between the three valleys at
 infinity give the Airy functions (DLMF 9.5.4 and 9.2.11):
 
@@ -31,7 +31,7 @@ from scipy.special import airy
 
 import contourkit as ck
 from contourkit import plotting
-from contourkit.modelfile import example_path
+from contourkit.symbolic.modelfile import example_path
 
 
 def main(out_dir="."):

@@ -43,7 +43,7 @@ import matplotlib.pyplot as plt
 
 import contourkit as ck
 from contourkit import plotting
-from contourkit.scan import COLUMNS, compute_row
+from contourkit.scans.resumable import COLUMNS, compute_row
 
 
 def main(out_dir="."):

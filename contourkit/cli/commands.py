@@ -29,7 +29,7 @@ def _writable(path, what):
 
 def omega_range(model, args):
     """The frequency grid of --omega-min/--omega-max/--points/--log (defaults from T_H and the cut-off)."""
-    from ..scan import omega_grid
+    from ..scans.resumable import omega_grid
     T_H = model.hawking_temperature
     lo = args.omega_min if args.omega_min is not None else T_H / 2
     hi = args.omega_max
@@ -72,7 +72,7 @@ def _parallel(args):
 
 def run_spectrum(args):
     """``contourkit spectrum``: a resumable scan to CSV (and JSON)."""
-    from ..scan import scan, write_json
+    from ..scans.resumable import scan, write_json
     model, label = load(args)
     require_horizon(model, label, "spectrum")
     parallel = _parallel(args)
@@ -125,8 +125,8 @@ def run_figures(args):
     import matplotlib
     matplotlib.use("Agg")
     from .. import plotting
-    from ..horizon import HorizonModel
-    from ..scan import read_table, scan
+    from ..symbolic.horizon import HorizonModel
+    from ..scans.resumable import read_table, scan
     model, label = load(args)
     formats = _formats(args.formats)
     parallel = _parallel(args)
@@ -168,7 +168,7 @@ def run_figures(args):
 
 def run_check(args):
     """``contourkit check``: near-horizon contour method against the direct solver."""
-    from ..comparison import compare
+    from ..profiles.comparison import compare
     model, label = load(args)
     require_horizon(model, label, "check")
     if args.out is not None:

@@ -3,7 +3,7 @@ import math
 
 import sympy as sp
 
-from .._sym import exact
+from ..symbolic._sym import exact
 
 
 def _degrees(angle):
@@ -12,7 +12,7 @@ def _degrees(angle):
 
 def _facts(model, omega):
     """Named entries (label, sympy-or-text value) in the order they are printed."""
-    from ..horizon import HorizonModel
+    from ..symbolic.horizon import HorizonModel
     items = []
     if isinstance(model, HorizonModel):
         items += [("model", model.name or "unnamed"),

@@ -105,7 +105,7 @@ def build_parser():
     common = _common()
     top = Parser(prog="contourkit", description=DESCRIPTION, epilog=EPILOG,
                  formatter_class=argparse.RawDescriptionHelpFormatter)
-    from .. import __version__
+    from .._version import __version__
     top.add_argument("--version", action="version", version=f"contourkit {__version__}")
     sub = top.add_subparsers(dest="command", metavar="COMMAND", parser_class=Parser)
 

@@ -81,7 +81,7 @@ def load(args):
         A HorizonModel or ModeEquation, and how it was named (for messages
         and table metadata).
     """
-    from ..modelfile import example_path, load_model
+    from ..symbolic.modelfile import example_path, load_model
     given = [v for v in (args.model, args.example, args.catalogue) if v is not None]
     if len(given) != 1:
         raise UsageError("give exactly one model: a model file MODEL.toml, --example NAME or --catalogue NAME"
@@ -100,7 +100,7 @@ def load(args):
 
 def require_horizon(model, label, command):
     """Refuse an equation without a horizon for commands that need one."""
-    from ..horizon import HorizonModel
+    from ..symbolic.horizon import HorizonModel
     if not isinstance(model, HorizonModel):
         raise InputError(f"{label} is a single mode equation without a horizon (kind = \"ode\" without "
                          f"[profiles]); '{command}' needs a horizon model (a dispersion relation, or an ODE "

@@ -6,11 +6,10 @@ import numpy as np
 import sympy as sp
 
 from ..errors import InputError
-from ..saddles import check_x
+from ..geometry.saddles import check_x
 from ._style import MARKERS, NORM_LINESTYLE, PALETTE, new_figure, style_rc
+from ..symbolic._sym import OMEGA, KS
 
-OMEGA = sp.Symbol("omega")
-KS = sp.Symbol("k")
 X = sp.Symbol("x")
 
 NORM_LABEL = {1: r"positive norm ($\partial D/\partial\omega > 0$)",
@@ -68,20 +67,20 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
                legend=True, style="journal"):
     r"""Dispersion diagram: the real branches of ``D(omega, k; x) = 0`` and the roots at one frequency.
 
-    For a :class:`~contourkit.horizon.HorizonModel` the branches ``omega(k)``
+    For a :class:`~contourkit.symbolic.horizon.HorizonModel` the branches ``omega(k)``
     of the full profile at position ``x`` (or, with ``x=None`` and
     ``side``, of the uniform asymptotic region, from
-    :func:`contourkit.planewaves.asymptotic_dispersion`) are found by solving
+    :func:`contourkit.profiles.planewaves.asymptotic_dispersion`) are found by solving
     the polynomial in omega at each k.  They are coloured by norm sign
     ``sign(dD/domega)`` (blue, solid: positive; vermillion, dashed: negative;
     Okabe-Ito colours, told apart in greyscale by the dash).  With ``omega``
     the horizontal line at omega is drawn and each real root k of
     ``D(omega, k; x) = 0`` is marked and labelled with its mode name from the
-    mode catalogue (:func:`contourkit.planewaves.local_modes`: side,
+    mode catalogue (:func:`contourkit.profiles.planewaves.local_modes`: side,
     in/out from the group velocity ``-(dD/dk)/(dD/domega)``, norm sign;
     e.g. ``ext-out+``).
 
-    For a :class:`~contourkit.model.ModeEquation` (or its k-space
+    For a :class:`~contourkit.symbolic.equation.ModeEquation` (or its k-space
     representation), which has no frequency, the diagram is the real curve
     ``sigma0(k) + x' sigma1(k) = 0`` of the local dispersion relation in the
     (k, x') plane, with the line at ``x`` and its real saddle points marked
@@ -127,9 +126,9 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
     >>> sorted(t.get_text() for t in ax.texts if t.get_gid() == "root-label")
     ['int-in+', 'int-in-', 'int-out+', 'int-out-']
     """
-    from ..fourier import KSpaceRepresentation
-    from ..horizon import HorizonModel
-    from ..model import ModeEquation
+    from ..symbolic.kspace import KSpaceRepresentation
+    from ..symbolic.horizon import HorizonModel
+    from ..symbolic.equation import ModeEquation
     if krange is not None:
         krange = _check_range(krange, "krange")
     if wrange is not None:
@@ -153,7 +152,7 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
 
 
 def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
-    from .. import planewaves
+    from ..profiles import planewaves
     if side is not None and side not in ("exterior", "interior"):
         raise InputError(f"side must be 'exterior' or 'interior', got {side!r}")
     if omega is not None:
@@ -246,7 +245,7 @@ def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
 
 
 def _equation_diagram(ax, eq, x, omega, side, krange, wrange, legend):
-    from ..fourier import KSpaceRepresentation
+    from ..symbolic.kspace import KSpaceRepresentation
     rep = eq if isinstance(eq, KSpaceRepresentation) else eq.fourier()
     if x is None:
         raise InputError("give the position x for the diagram of a ModeEquation")

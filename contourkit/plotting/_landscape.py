@@ -7,9 +7,9 @@ from matplotlib.colors import ListedColormap
 from matplotlib.lines import Line2D
 from matplotlib.patches import FancyArrowPatch, Patch, Wedge
 
-from .. import phase
+from ..geometry import phase
 from ..errors import ContourError, InputError
-from ..saddles import check_x, critical_points
+from ..geometry.saddles import check_x, critical_points
 from ._style import MARKERS, PALETTE, new_figure, style_rc
 
 #: labels of the legend entries, by element (also the artists' gid, with spaces -> "-")
@@ -35,9 +35,9 @@ def _terrain_cmap():
 
 
 def _resolve_rep(rep, omega):
-    from ..fourier import KSpaceRepresentation
-    from ..horizon import HorizonModel
-    from ..model import ModeEquation
+    from ..symbolic.kspace import KSpaceRepresentation
+    from ..symbolic.horizon import HorizonModel
+    from ..symbolic.equation import ModeEquation
     if isinstance(rep, KSpaceRepresentation):
         return rep
     if isinstance(rep, ModeEquation):
@@ -152,7 +152,7 @@ def _edge_distance(c, d, win):
 
 def _display_arm(rep, geom, t, arm, sign, win):
     """The arm's vertices, traced further (same path, larger descent level) until it leaves the window."""
-    from ..paths import trace_arm
+    from ..geometry.paths import trace_arm
     pts = arm.k
     u_stop = geom.u_stop
     tries = 0
@@ -253,8 +253,8 @@ def landscape(rep, x, contour=None, *, omega=None, window=None, ax=None, resolut
     >>> len(next(l for l in ax.get_lines() if l.get_gid() == "saddle").get_xdata())
     2
     """
-    from ..contours import Contour
-    from ..decompose import decompose
+    from ..geometry.contours import Contour
+    from ..geometry.decompose import decompose
     rep = _resolve_rep(rep, omega)
     x = check_x(x)
     if contour is not None:

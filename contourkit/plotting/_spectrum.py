@@ -8,7 +8,7 @@ from matplotlib.figure import Figure
 from ..errors import InputError
 from ._style import COLUMN_WIDTH, PALETTE, style_rc
 
-#: how each method is drawn (labels as in contourkit.comparison.plot_comparison)
+#: how each method is drawn (labels as in contourkit.profiles.comparison.plot_comparison)
 METHOD_STYLE = {
     "contour": dict(color=PALETTE["contour"], marker="o", ms=4.0, mfc=PALETTE["contour"], ls="-", lw=0.9,
                     label="near-horizon contour"),
@@ -29,7 +29,7 @@ def _num(v):
 
 def _rows_of(obj, what):
     """Rows (dicts) of a Spectrum, a ComparisonTable, a ScatteringResult list or a list of dicts."""
-    from ..results import ScatteringResult
+    from ..scattering.results import ScatteringResult
     if isinstance(obj, ScatteringResult):
         return [obj.as_row()]
     rows = getattr(obj, "rows", obj)
@@ -73,7 +73,7 @@ def spectrum(spec_or_rows, *, direct=None, ax=None, xaxis="omega/T_H", style="jo
     Top: ``|beta|^2`` (log scale) with the Planck curve
     ``1/(exp(omega/T_H) - 1)``; bottom: ``T_eff/T_H`` with the Hawking value 1.
     Contour (near-horizon) and direct (full-profile) results are drawn side by
-    side when both are present: give a :class:`~contourkit.comparison.ComparisonTable`
+    side when both are present: give a :class:`~contourkit.profiles.comparison.ComparisonTable`
     (both methods in one table), or a contour spectrum and ``direct=...``.
 
     Parameters

@@ -1,0 +1,170 @@
+"""Deformation of a contour into steepest-descent paths (thimbles).
+
+``C = sum_sigma n_sigma J_sigma`` with ``n_sigma`` the intersection number of C
+with the dual (ascent) path of sigma, counted with the sheet on which C
+crosses it: a crossing where C's branch differs from the dual path's branch
+by ``log(k - k_j) -> log(k - k_j) + 2 pi i m_j`` contributes
+``exp(2 pi i sum_j m_j nu_j)`` times the sign of the crossing.  The geometry
+is computed at ``x_g = x (1 + eps e^{i theta})``, an infinitesimal
+perturbation that lifts exact Stokes connections (real parameters often sit
+on Stokes lines) and splits coalescing saddles; the integrand itself is not
+perturbed, so the decomposition is exact.
+
+References
+----------
+.. [1] E. Witten, Analytic continuation of Chern-Simons theory, AMS/IP Stud.
+   Adv. Math. 50 (2011) 347, section 3 (thimbles, dual cycles and
+   intersection pairing; Stokes jumps).
+"""
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from . import contours as C
+from . import phase
+from ..errors import ContourError
+from .paths import thimble
+from .saddles import critical_points
+
+EPS = 1e-7
+THETA = 1.2345
+
+
+@dataclass
+class Geometry:
+    x: float
+    xg: complex
+    crit: np.ndarray
+    thimbles: list
+    u_stop: float
+
+
+def geometry_x(x):
+    return x + EPS * (abs(x) + 1.0) * complex(math.cos(THETA), math.sin(THETA))
+
+
+def crossings(rep, cverts, clogs, arm, orient):
+    """Crossings of polyline C with an ascent arm: a list of (sign, sheet shift m)."""
+    kv = arm.k
+    if len(kv) < 2:
+        return []
+    a0 = cverts[:-1][:, None]
+    a1 = cverts[1:][:, None]
+    b0 = kv[:-1][None, :]
+    b1 = kv[1:][None, :]
+    da = a1 - a0
+    db = b1 - b0
+    cross = (np.conj(da) * db).imag
+    w = b0 - a0
+    with np.errstate(divide="ignore", invalid="ignore"):
+        s = (np.conj(w) * db).imag / cross
+        t = (np.conj(w) * da).imag / cross
+    hit = (cross != 0) & (s >= 0) & (s < 1) & (t >= 0) & (t < 1)
+    out = []
+    for ia, ib in zip(*np.nonzero(hit)):
+        p = a0[ia, 0] + s[ia, ib] * da[ia, 0]
+        sign = 1 if orient * cross[ia, ib] > 0 else -1
+        m = ()
+        if rep._kj.size:
+            lc = phase.continue_logs(rep, cverts[ia], clogs[ia], p)
+            lk = phase.continue_logs(rep, kv[ib], arm.logs[ib], p)
+            m = tuple(int(v) for v in np.round((lc - lk).imag / (2 * math.pi)))
+        out.append((sign, m))
+    return out
+
+
+def term_factor(rep, kind, params, nu, exp2pii):
+    """Extra factor of an elementary contour: 1/(exp(2 pi i nu_j) - 1) for a half-line."""
+    if kind != "half":
+        return 1
+    j = C._singular_index(rep, params["point"])
+    return 1 / (exp2pii(nu[j]) - 1)
+
+
+def coefficient(rep, terms, crossing_list, nu, exp2pii):
+    """Thimble coefficient sum_terms coef * factor * sum_crossings sign exp(2 pi i m.nu)."""
+    total = 0
+    for ti, sign, m in crossing_list:
+        coef, kind, params = terms[ti]
+        w = exp2pii(sum(mi * nj for mi, nj in zip(m, nu))) if m else 1
+        total = total + coef * term_factor(rep, kind, params, nu, exp2pii) * sign * w
+    return total
+
+
+def decompose(rep, contour, x, *, u_stop=40.0, descent=True):
+    """Thimble coefficients of a contour (or of a list of contours, sharing one geometry) at x.
+
+    Returns
+    -------
+    geometry : Geometry
+    coeffs : list of (coefficient, thimble index, crossings) with nonzero coefficients;
+        crossings is a list of (term index, sign, sheet shift) from which the
+        coefficient is recomputed at any precision by :func:`coefficient`.
+        For a list of contours, a list of such lists.
+    descent : bool or callable
+        Trace the descent arms (needed for quadrature); a callable decides per
+        critical point.  Intersection numbers need only the ascent arms.
+    """
+    many = isinstance(contour, (list, tuple))
+    contours = list(contour) if many else [contour]
+    xg = geometry_x(x)
+    crit = critical_points(rep, xg)
+    if crit.size == 0:
+        raise ContourError("the exponent has no critical point at this x; nothing to deform onto")
+    logs0 = [phase.cut_plane_logs(rep, s)[0] if rep._kj.size else np.zeros(0, complex) for s in crit]
+    phis = np.array([phase.phi(rep, xg, s, l).real for s, l in zip(crit, logs0)])
+    level = float(np.min(phis)) - 8.0
+    reps_all = [_representatives(rep, c, xg, crit, level) for c in contours]
+    cmax = -math.inf
+    rmax = 0.0
+    for reps in reps_all:
+        for _, verts, logs in reps:
+            vals = phase.phi(rep, xg, verts, logs).real
+            cmax = max(cmax, float(np.max(vals)))
+            rmax = max(rmax, float(np.max(np.abs(verts))))
+    thims = []
+    out = [[] for _ in contours]
+    exp2 = lambda z: np.exp(2j * math.pi * z)  # noqa: E731
+    nu = list(rep._nu)
+    for i, s in enumerate(crit):
+        u_up = max(cmax - phis[i] + 4.0, 4.0)
+        want = descent(s) if callable(descent) else descent
+        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax, descent=want)
+        thims.append(t)
+        for c, (cont, reps) in enumerate(zip(contours, reps_all)):
+            cl = []
+            for ti, (coef, verts, logs) in enumerate(reps):
+                cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_plus, +1)]
+                cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
+            n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
+            size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
+            if cl and not (math.isfinite(abs(n)) and math.isfinite(size)):
+                # the test below would drop the thimble silently
+                big = max(abs(v.imag) for v in nu)
+                raise ContourError(f"the coefficient of the thimble at k = {s:.6g} (x = {x}) overflows double "
+                                   f"precision: sheet factors exp(2 pi i m nu) with |Im nu| up to {big:.4g} "
+                                   f"exceed 1e308 (|Im nu| > 112) and the geometry is double precision, so "
+                                   f"the decomposition cannot be represented; for a horizon model use "
+                                   f"contourkit.direct.scatter")
+            if cl and abs(n) > 1e-12 * size:
+                out[c].append((n, i, cl))
+    return Geometry(x, xg, crit, thims, u_stop), (out if many else out[0])
+
+
+def _representatives(rep, contour, xg, crit, level):
+    reps = []
+    for coef, kind, params in contour.terms:
+        verts, slog = C.representative(rep, xg, kind, params, crit, level)
+        logs = C.polyline_logs(rep, verts, slog)
+        if kind == "half":
+            j = C._singular_index(rep, params["point"])
+            nu = rep._nu[j]
+            if nu.real <= -1:
+                raise ContourError(f"a half-line from {rep.singularities[j].point} needs Re(exponent) > -1 "
+                                   f"(here {nu:.6g}): the integral diverges at the branch point; use a loop")
+            if abs(np.exp(2j * math.pi * nu) - 1) < 1e-12:
+                raise ContourError(f"the exponent at {rep.singularities[j].point} is an integer: the loop vanishes "
+                                   f"and the half-line is not a closed cycle; use another contour")
+        reps.append((coef, verts, logs))
+    return reps

@@ -1,0 +1,229 @@
+"""Steepest-descent and steepest-ascent paths of ``Phi(k) = i k x + E(k)``.
+
+From a critical point sigma, a descent arm is a curve with
+``Im Phi = Im Phi(sigma)`` on which ``u = Re(Phi(sigma) - Phi)`` grows from
+0.  It is traced by predictor-corrector continuation in u: the predictor is
+the Newton step ``dk = -du / Phi'(k)``; the corrector solves
+``Phi(k) = Phi(sigma) - u`` by Newton's method.  Steps are limited so that a
+step is short against the distance to every singular point and against
+``|Phi'/Phi''|`` (the distance to the nearest other critical point), so the
+arm follows sharp turns near other saddles.  An arm ends
+
+* in a valley at infinity, once ``u`` exceeds the level ``u_stop`` below
+  which the integrand is negligible at the working precision;
+* at a singular point where the integrand vanishes (``Re nu > -1`` and the
+  arm converging into it); the rest of the arm is then the exact log-spiral
+  tail integrated by Gauss-Laguerre quadrature (see quadrature.py);
+* for ascent arms, at a singular point where the integrand blows up, or
+  once it has climbed above every point of the contour being decomposed.
+
+The vertices carry the continued logarithms (phase.py), so every arm knows
+the sheet it is on.
+
+References
+----------
+.. [1] D. Huybrechs, S. Vandewalle, SIAM J. Numer. Anal. 44 (2006) 1026
+   (numerical steepest descent; cost independent of the frequency).
+"""
+import cmath
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from . import phase
+from ._scalar import ScalarPhase
+from ..errors import AccuracyError
+
+
+@dataclass
+class Arm:
+    """One traced arm: vertices (first = the critical point), logs at vertices, how it ended."""
+    k: np.ndarray
+    logs: np.ndarray
+    end: str                 # "valley", "sink", "source", "level", "stalled"
+    sink: int = -1           # index of the singular point for "sink"/"source"
+    u: np.ndarray = field(default=None, repr=False)
+
+
+def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
+              logs0=None, max_steps=4000, u_cap=None, r_beyond=0.0):
+    """Trace one descent (or ascent) arm from the critical point sigma.
+
+    Parameters
+    ----------
+    rep : KSpaceRepresentation
+    x : complex      position used for the geometry (may carry a tiny imaginary part)
+    sigma : complex  critical point
+    direction : complex   unit vector of the initial direction
+    ascent : bool    trace Re Phi increasing instead of decreasing
+    u_stop : float   stop once the change of Re Phi exceeds this
+    r_beyond : float for ascent arms: stop at the level only beyond this radius
+                     (Re Phi differs between sheets, so a level alone is no bound)
+    crit : array     all critical points (for step control)
+    """
+    P = ScalarPhase(rep, x)
+    J = P.J
+    crit = [complex(c) for c in (crit if crit is not None else [])]
+    other = [_other_scale(rep, j) for j in range(J)]
+    sgn = 1.0 if ascent else -1.0          # Phi(k) = Phi0 + sgn * u
+    sigma = complex(sigma)
+    if logs0 is None:
+        logs0 = list(phase.cut_plane_logs(rep, sigma)[0]) if J else []
+    else:
+        logs0 = list(logs0)
+    phi0 = P.phi(sigma, logs0)
+
+    def local_scale(k):
+        d = P.nearest_singular(k)[0]
+        for c in crit:
+            dc = abs(k - c)
+            if 0 < dc < d:
+                d = dc
+        return d
+
+    f2 = P.d2(sigma)
+    scale0 = local_scale(sigma)
+    scale0 = scale0 if math.isfinite(scale0) else max(1.0, abs(sigma))
+    du0 = 0.02
+    h = math.sqrt(2 * du0 / abs(f2)) if f2 != 0 else 0.05 * scale0
+    h = min(h, 0.05 * scale0)
+    ks, lg, us = [sigma], [logs0], [0.0]
+    k = sigma + h * direction
+    logs = P.continue_logs(sigma, logs0, k)
+    end = "stalled"
+    sink = -1
+    u = float(sgn * (P.phi(k, logs) - phi0).real)
+    if u <= 0:
+        u = du0
+    for _ in range(max_steps):
+        target = phi0 + sgn * u
+        kc, lc = k, logs
+        ok = False
+        prev = ks[-1]
+        for _it in range(12):
+            val = P.phi(kc, lc)
+            d1 = P.d1(kc)
+            if d1 == 0:
+                break
+            step = (val - target) / d1
+            knew = kc - step
+            lc = P.continue_logs(kc, lc, knew)
+            kc = knew
+            if abs(step) <= 1e-10 * abs(kc - prev) + 1e-300 or abs(val - target) <= 2e-15 * (1.0 + abs(target)):
+                ok = True
+                break
+        if not ok or abs(kc - prev) > 3 * max(abs(k - prev), 1e-300) + 1e-14:
+            du_last = u - us[-1]
+            if du_last < 1e-12:
+                end = "stalled"
+                break
+            u = us[-1] + du_last / 4
+            d1p = P.d1(prev)
+            k = prev + (sgn * (u - us[-1])) / d1p if d1p != 0 else prev
+            logs = P.continue_logs(prev, lg[-1], k)
+            continue
+        k, logs = kc, lc
+        ks.append(k)
+        lg.append(logs)
+        us.append(u)
+        if u >= u_stop and (not ascent or abs(k) > r_beyond):
+            end = "valley" if not ascent else "level"
+            break
+        if J:
+            dist, j = P.nearest_singular(k)
+            # an arm can only end where the integrand vanishes (descent) or blows up (ascent)
+            can = bool(P.ess[j]) or (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
+            if can and dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j])) and len(ks) > 2 \
+                    and dist < abs(ks[-2] - P.kj[j]):
+                end, sink = ("source" if ascent else "sink"), j
+                break
+        if u_cap is not None and u > u_cap:
+            end = "level"
+            break
+        d1 = P.d1(k)
+        d2 = P.d2(k)
+        loc = local_scale(k)
+        geo = min(0.25 * abs(d1) / abs(d2) if d2 != 0 else math.inf, 0.2 * loc,
+                  0.5 * max(abs(k), 1e-3) + 0.2 * loc)
+        if not math.isfinite(geo):
+            geo = 0.5 * max(1.0, abs(k))
+        du = min(geo * abs(d1), 1.0 + 0.25 * u, 2.0 if not ascent else 1e300)
+        du = max(du, 1e-14 * max(1.0, u))
+        u = u + du
+        # ascent arms (only crossed with contours, no quadrature nodes on them): second-order
+        # predictor from the quadratic Taylor model, so the corrector needs fewer Newton steps;
+        # descent arms keep the first-order predictor their node placement was tuned with
+        h = (sgn * du) / d1
+        if ascent:
+            h2 = h - d2 * h * h / (2 * d1)
+            h = h2 if abs(h2 - h) < 0.5 * abs(h) else h
+        k = k + h
+        logs = P.continue_logs(ks[-1], lg[-1], k)
+    else:
+        end = "stalled"
+    return Arm(np.array(ks, dtype=complex), np.array(lg, dtype=complex).reshape(len(ks), -1), end, sink,
+               np.array(us))
+
+
+def _other_scale(rep, j):
+    kj = rep._kj
+    if kj.size == 1:
+        return max(1.0, abs(kj[0]))
+    d = np.abs(kj - kj[j])
+    d = d[d > 0]
+    return float(np.min(d)) if d.size else 1.0
+
+
+@dataclass
+class Thimble:
+    """Steepest-descent path through a critical point, and its dual ascent path.
+
+    ``minus`` and ``plus`` are the descent arms (the thimble runs from the
+    end of minus through sigma to the end of plus); ``up_minus`` and
+    ``up_plus`` are the ascent arms (the dual runs from the end of up_minus
+    through sigma to the end of up_plus); their intersection number is +1.
+    """
+    sigma: complex
+    direction: complex
+    minus: Arm
+    plus: Arm
+    up_minus: Arm = None
+    up_plus: Arm = None
+
+
+def descent_direction(rep, x, sigma):
+    f2 = complex(phase.dphi(rep, x, sigma, 2))
+    if f2 == 0:
+        return 1.0 + 0j
+    return cmath.exp(1j * (math.pi - cmath.phase(f2)) / 2)
+
+
+def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=True):
+    """Trace the thimble (and, if u_up is given, the dual) through sigma.
+
+    With descent=False only the dual (ascent) arms are traced; the descent
+    arms are then single-vertex placeholders (enough for intersection numbers).
+    """
+    d = descent_direction(rep, x, sigma)
+    if not descent:
+        logs0 = phase.cut_plane_logs(rep, sigma)[0] if rep._kj.size else np.zeros(0, complex)
+        stub = Arm(np.array([sigma], dtype=complex), logs0.reshape(1, -1), "not traced")
+        plus = minus = stub
+    else:
+        plus = trace_arm(rep, x, sigma, d, u_stop=u_stop, crit=crit)
+        minus = trace_arm(rep, x, sigma, -d, u_stop=u_stop, crit=crit)
+    for a in (plus, minus) if descent else ():
+        if a.end == "stalled":
+            raise AccuracyError(f"a steepest-descent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
+                                f"after {len(a.k)} steps near k = {a.k[-1]:.6g}; this happens where saddles "
+                                f"coalesce: move x slightly")
+    t = Thimble(sigma, d, minus, plus)
+    if u_up is not None:
+        for name, dd in (("up_plus", 1j * d), ("up_minus", -1j * d)):
+            arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond)
+            if arm.end == "stalled":
+                raise AccuracyError(f"a steepest-ascent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
+                                    f"near k = {arm.k[-1]:.6g}; move x slightly")
+            setattr(t, name, arm)
+    return t

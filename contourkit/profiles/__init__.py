@@ -1,0 +1,13 @@
+"""Full profiles: plane waves of the uniform regions, cut-offs, the direct solver, comparison.
+
+Imports the symbolic and scattering layers (result objects, Bogoliubov figures).
+Entry points: :func:`.direct.scatter`, :func:`.cutoff.omega_max`,
+:func:`.comparison.compare`.
+"""
+from ..symbolic import extensions
+from . import cutoff, direct
+from .comparison import compare
+
+extensions.provide("omega_max", cutoff.omega_max)
+
+__all__ = ["compare", "cutoff", "direct"]

@@ -1,0 +1,206 @@
+"""Near-horizon contour method versus the direct full-profile solver.
+
+:func:`compare` runs both methods on one :class:`~contourkit.symbolic.horizon.HorizonModel`
+at each frequency and tabulates the Hawking-channel figures side by side:
+where the near-horizon (linearised) approximation holds, ``omega`` and
+``kappa`` small against the dispersive scale and the profile's width, the two
+agree; the relative differences show where it stops holding (DESIGN.md,
+step 9).  :func:`plot_comparison` draws ``T_eff / T_H`` against
+``omega / kappa`` for both methods.
+
+References
+----------
+.. [1] S. Corley, T. Jacobson, Phys. Rev. D 54 (1996) 1568 (the quartic
+   dispersive spectrum is thermal at ``T_H = kappa/(2 pi)`` for
+   ``kappa << Lambda``).
+.. [2] J. Macher, R. Parentani, Phys. Rev. D 79 (2009) 124008 (deviations of
+   tanh flows from the near-horizon result).
+
+Examples
+--------
+>>> from contourkit.catalogue import quartic_flow
+>>> m = quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=0.5)
+>>> table = compare(m, [0.05], methods=("direct",))   # contour side omitted here
+>>> round(table.rows[0]["temperature_ratio_direct"], 3)
+1.0
+"""
+import math
+
+from ..scattering.results import RowTable
+from ..errors import ContourkitError, InputError
+
+#: per-method fields of a row (each appears as ``<field>_<method>``)
+METHOD_FIELDS = ("occupation", "thermal_ratio", "effective_temperature", "temperature_ratio",
+                 "unitarity_residual", "error_estimate", "n_in", "success", "message")
+#: relative differences ``(contour - direct) / direct`` (None when either side is missing or zero)
+DIFF_FIELDS = ("rel_diff_occupation", "rel_diff_thermal_ratio", "rel_diff_effective_temperature")
+#: the columns of every row, in order
+COLUMNS = (("omega", "omega_over_kappa", "hawking_temperature")
+           + tuple(f"{f}_{m}" for m in ("contour", "direct") for f in METHOD_FIELDS) + DIFF_FIELDS)
+
+
+class ComparisonTable(RowTable):
+    """One row (dict) per frequency; see :data:`COLUMNS` for the fields.
+
+    Attributes
+    ----------
+    rows : list of dict
+    model_name : str
+    results : list of dict
+        ``{"contour": ScatteringResult or None, "direct": ...}`` per row.
+    """
+
+    columns = COLUMNS
+
+    def __init__(self, rows, *, model_name="", results=None):
+        super().__init__(rows)
+        self.model_name = model_name
+        self.results = list(results or [])
+
+    def __repr__(self):
+        return f"ComparisonTable({self.model_name or 'model'}, {len(self.rows)} rows)"
+
+
+def _rel(a, b):
+    if a is None or b is None or b == 0 or not (math.isfinite(a) and math.isfinite(b)):
+        return None
+    return (a - b) / abs(b)
+
+
+def _method_part(res, name, err):
+    if res is None:
+        out = {f"{f}_{name}": None for f in METHOD_FIELDS}
+        out[f"success_{name}"] = False
+        out[f"message_{name}"] = err
+        return out
+    T = float(res.effective_temperature)
+    return {f"occupation_{name}": float(res.occupation), f"thermal_ratio_{name}": float(res.thermal_ratio),
+            f"effective_temperature_{name}": T if math.isfinite(T) else None,
+            f"temperature_ratio_{name}": T / float(res.hawking_temperature) if math.isfinite(T) else None,
+            f"unitarity_residual_{name}": float(res.unitarity_residual),
+            f"error_estimate_{name}": float(res.error_estimate), f"n_in_{name}": len(res.in_modes),
+            f"success_{name}": bool(res.success), f"message_{name}": res.message}
+
+
+def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", contour_options=None,
+            direct_options=None):
+    """Contour (near-horizon) and direct (full-profile) figures, one row per omega.
+
+    Parameters
+    ----------
+    model : HorizonModel
+        A model with uniform asymptotic regions (e.g. ``quartic_flow(..., D=0.5)``).
+    omegas : sequence of float
+        Frequencies > 0.
+    methods : tuple of {"contour", "direct"}
+        Which methods to run (a method left out gives None entries).
+    on_error : {"raise", "record"}
+        "raise": a method's ContourkitError propagates; "record": the row gets
+        None entries for that method, ``success_<method> = False`` and the
+        error text in ``message_<method>``.
+    contour_options, direct_options : dict, optional
+        Keyword options for ``model.scatter`` and :func:`contourkit.direct.scatter`.
+
+    Returns
+    -------
+    ComparisonTable
+        Rows with the fields of :data:`COLUMNS`: omega, omega/kappa, T_H; per
+        method ``occupation`` (``|beta|^2``), ``thermal_ratio``,
+        ``effective_temperature``, ``temperature_ratio`` (T_eff/T_H),
+        ``unitarity_residual``, ``error_estimate``, ``n_in``, ``success``,
+        ``message``; and the relative differences (contour - direct)/direct.
+        Missing values are None, never NaN.
+
+    Examples
+    --------
+    >>> from contourkit.catalogue import quartic_flow
+    >>> m = quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=0.5)
+    >>> t = compare(m, [0.02, 0.05], methods=("direct",))
+    >>> len(t), t.rows[1]["n_in_direct"]
+    (2, 3)
+    """
+    from . import direct
+    if on_error not in ("raise", "record"):
+        raise InputError(f"on_error must be 'raise' or 'record', got {on_error!r}")
+    bad = set(methods) - {"contour", "direct"}
+    if bad or not methods:
+        raise InputError(f"methods must be a non-empty subset of ('contour', 'direct'), got {methods!r}")
+    try:
+        ws = [float(w) for w in omegas]
+    except (TypeError, ValueError):
+        raise InputError(f"omegas must be a sequence of numbers, got {omegas!r}")
+    if not ws:
+        raise InputError("omegas is empty; give at least one frequency")
+    runners = {"contour": lambda w: model.scatter(w, **(contour_options or {})),
+               "direct": lambda w: direct.scatter(model, w, **(direct_options or {}))}
+    kappa = float(model.kappa)
+    rows, results = [], []
+    for w in ws:
+        row = {"omega": w, "omega_over_kappa": w / kappa, "hawking_temperature": kappa / (2 * math.pi)}
+        got = {}
+        for name in ("contour", "direct"):
+            res, err = None, "not requested"
+            if name in methods:
+                try:
+                    res = runners[name](w)
+                except ContourkitError as exc:
+                    if on_error == "raise":
+                        raise
+                    err = f"{type(exc).__name__}: {exc}"
+            got[name] = res
+            row.update(_method_part(res, name, err))
+        for f, key in zip(DIFF_FIELDS, ("occupation", "thermal_ratio", "effective_temperature")):
+            row[f] = _rel(row[f"{key}_contour"], row[f"{key}_direct"])
+        rows.append(row)
+        results.append(got)
+    return ComparisonTable(rows, model_name=getattr(model, "name", ""), results=results)
+
+
+def plot_comparison(table, *, ax=None, quantity="temperature_ratio"):
+    """Plot one quantity of a :class:`ComparisonTable` against omega/kappa, one line per method.
+
+    Parameters
+    ----------
+    table : ComparisonTable
+    ax : matplotlib Axes, optional
+    quantity : {"temperature_ratio", "thermal_ratio", "occupation", "effective_temperature"}
+        ``temperature_ratio`` (T_eff/T_H, default; the Hawking value is 1) or
+        another per-method field (the ratio and occupation on a log scale).
+
+    Returns
+    -------
+    (Figure, Axes)
+        Only methods with at least one value are drawn; no other lines are added.
+
+    Examples
+    --------
+    >>> import matplotlib; matplotlib.use("Agg")
+    >>> rows = [{"omega_over_kappa": 1.0, "temperature_ratio_contour": 1.0, "temperature_ratio_direct": 0.99}]
+    >>> fig, ax = plot_comparison(ComparisonTable(rows))
+    >>> len(ax.get_lines())
+    2
+    """
+    allowed = ("temperature_ratio", "thermal_ratio", "occupation", "effective_temperature")
+    if quantity not in allowed:
+        raise InputError(f"quantity must be one of {allowed}, got {quantity!r}")
+    if ax is None:
+        import matplotlib.pyplot as plt
+        fig, ax = plt.subplots(figsize=(5.5, 3.8))
+    else:
+        fig = ax.figure
+    styles = {"contour": dict(marker="o", linestyle="-", label="near-horizon contour"),
+              "direct": dict(marker="s", linestyle="--", label="direct (full profile)")}
+    for name, st in styles.items():
+        pts = [(r["omega_over_kappa"], r.get(f"{quantity}_{name}")) for r in table.rows]
+        pts = [(x, y) for x, y in pts if y is not None and math.isfinite(y)]
+        if pts:
+            ax.plot([p[0] for p in pts], [p[1] for p in pts], **st)
+    ax.set_xlabel(r"$\omega/\kappa$")
+    labels = {"temperature_ratio": r"$T_\mathrm{eff}/T_H$ (Hawking: 1)", "thermal_ratio": r"$|\beta/\alpha|^2$",
+              "occupation": r"$|\beta|^2$", "effective_temperature": r"$T_\mathrm{eff}$"}
+    ax.set_ylabel(labels[quantity])
+    if quantity in ("thermal_ratio", "occupation"):
+        ax.set_yscale("log")
+    if ax.get_lines():
+        ax.legend()
+    return fig, ax

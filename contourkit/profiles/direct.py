@@ -1,0 +1,422 @@
+"""Direct position-space S-matrix of a full (not linearised) profile.
+
+The independent check of the near-horizon contour method (DESIGN.md, step 9):
+for a profile that joins two uniform asymptotic regions, integrate the full
+mode equation ``L = sum_n c_n(x) d^n/dx^n`` (left form of the symmetric
+operator, :func:`contourkit.symbolic.symmetric.from_symmetric`) across the window and
+decompose the solutions into the plane-wave modes of the window ends.
+
+Method (chosen for stability against growing and decaying modes)
+-------------------------------------------------------------------
+*Multiple shooting with spectral segments and a global boundary-value solve.*
+
+1. The window ``[a, b]`` is cut into short segments whose length h obeys
+   ``h * max|k(x)| <= step`` (k: the local roots of ``D(omega, k; x)``, so
+   that every solution, oscillating or evanescent, changes by at most
+   ``e^step`` over a segment).
+2. On each segment the first-order system ``Y' = A(x) Y`` for the scaled
+   state ``Y_c = phi^(c) / K^c`` is solved for the identity initial
+   condition by Chebyshev collocation (``points`` nodes; spectrally
+   accurate), giving a well-conditioned transfer matrix ``Phi_s``.
+3. The transfer matrices are never multiplied together (their product
+   would be swamped by the growing modes, exp(|Im k| L) ~ 1e190 over a window
+   of a few hundred).  Instead the unknown states at all segment ends, the
+   mode amplitudes at the two window ends, the continuity conditions
+   ``Y_{s+1} = Phi_s Y_s`` and the boundary conditions (no growing mode at
+   either end; unit amplitude on one in-mode, zero on the others) form one
+   sparse, block-banded linear system solved by sparse LU.  Posed with the
+   dichotomy-respecting boundary conditions this system is well conditioned
+   (it is a discretised boundary-value problem, not an initial-value one).
+4. The window ends must be uniform: the modes there are the local plane
+   waves (roots of D at the actual end positions, i.e. first-order WKB
+   modes), flux normalised ``|a|^2 |dD/dk| = 1/(2 pi)``, with phases
+   referred to the horizon.  The default window puts each end where the
+   profile is uniform to 1e-16 relative (40-digit evaluation), which for a
+   tanh profile is ``kappa |x| / D ~ 20``; the long-wavelength modes, whose
+   wavelength may exceed the window, are then exact plane waves at the ends.
+5. The computation is repeated with ``points + 8`` nodes per segment; the
+   difference estimates the error and more nodes are added until it is below
+   ``rtol``.
+
+References
+----------
+.. [1] U. M. Ascher, R. M. M. Mattheij, R. D. Russell, Numerical Solution of
+   Boundary Value Problems for ODEs, SIAM (1995), ch. 4 (multiple shooting,
+   dichotomy and conditioning).
+.. [2] L. N. Trefethen, Spectral Methods in MATLAB, SIAM (2000), ch. 6
+   (Chebyshev differentiation matrices).
+.. [3] J. Macher, R. Parentani, Phys. Rev. D 79 (2009) 124008 (tanh flows with
+   quartic dispersion; the direct numerical S-matrix).
+
+Examples
+--------
+>>> from contourkit.catalogue import quartic_flow
+>>> from contourkit.direct import scatter
+>>> m = quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=0.5)
+>>> res = scatter(m, 0.05)
+>>> res.unitarity_residual < 1e-8, len(res.in_modes)
+(True, 3)
+>>> abs(res.effective_temperature / res.hawking_temperature - 1) < 0.03
+True
+"""
+import math
+import warnings
+import weakref
+
+import numpy as np
+import scipy.sparse as sps
+import scipy.sparse.linalg as spla
+import sympy as sp
+
+from ..scattering.bogoliubov import hawking_figures
+from .cutoff import model_cutoffs
+from ..errors import AccuracyWarning, HorizonError, InputError, ScatteringError
+from .planewaves import (OMEGA, X, asymptotic_dispersion, default_window, deviation, local_modes,
+                         max_root_modulus)
+from ..scattering.results import ScatteringResult, pseudo_unitarity_residual
+from ..symbolic.symmetric import from_symmetric
+
+#: relative distance from a cut-off inside which scatter() refuses to work
+CUTOFF_GUARD = 1e-9
+
+_left_cache = weakref.WeakKeyDictionary()
+
+
+def _check_omega(omega):
+    try:
+        w = float(omega)
+    except (TypeError, ValueError):
+        raise InputError(f"omega must be a positive real number, got {omega!r}")
+    if isinstance(omega, complex) or not math.isfinite(w) or w <= 0:
+        raise InputError(f"omega must be a positive finite real number, got {omega!r}; the direct solver "
+                         f"works at one real frequency omega > 0")
+    return w
+
+
+def left_form(model):
+    """numpy callable ``(x, omega) -> array (order+1, len(x))`` of the left-form coefficients c_n.
+
+    The full symmetric operator ``sum_m S_m[g_m]`` expanded with x on the
+    left (:func:`contourkit.symbolic.symmetric.from_symmetric`), lambdified once per model.
+    """
+    try:
+        return _left_cache[model]
+    except (KeyError, TypeError):
+        pass
+    cs = from_symmetric(model.g, model.x)
+    fs = [sp.lambdify((X, OMEGA), c, "numpy") for c in cs]
+
+    def coeffs(x, omega):
+        x = np.asarray(x, dtype=float)
+        return np.array([np.broadcast_to(np.asarray(f(x, omega), dtype=complex), x.shape) for f in fs])
+    try:
+        _left_cache[model] = coeffs
+    except TypeError:  # pragma: no cover
+        pass
+    return coeffs
+
+
+def _window(model, window):
+    xh = float(model.horizon)
+    if window is None:
+        return default_window(model)
+    try:
+        a, b = (float(v) for v in window)
+    except (TypeError, ValueError):
+        raise InputError(f"window must be a pair of numbers (a, b), got {window!r}")
+    if not (math.isfinite(a) and math.isfinite(b)) or not a < b:
+        raise InputError(f"window must be two finite numbers a < b, got {window!r}")
+    if not a < xh < b:
+        raise HorizonError(f"the window ({a:g}, {b:g}) does not contain the horizon at x = {xh:g}; the direct "
+                           f"solver integrates across the horizon: choose a < {xh:g} < b, or window=None for "
+                           f"the automatic window {tuple(round(v, 1) for v in default_window(model))}")
+    return a, b
+
+
+def _cheb(N):
+    """Chebyshev points cos(pi i/(N-1)) on [-1, 1] (from +1 down) and the differentiation matrix."""
+    n = N - 1
+    t = np.cos(np.pi * np.arange(N) / n)
+    c = np.ones(N)
+    c[0] = c[-1] = 2.0
+    c *= (-1.0) ** np.arange(N)
+    dT = t[:, None] - t[None, :]
+    Dm = np.outer(c, 1.0 / c) / (dT + np.eye(N))
+    Dm -= np.diag(Dm.sum(axis=1))
+    return t, Dm
+
+
+def _nodes(model, omega, a, b, step):
+    """Segment ends with ``h * max|k| <= step`` (max over the neighbourhood of each segment)."""
+    xs = np.linspace(a, b, 801)
+    kmax = max_root_modulus(model, omega, xs)
+    kfloor = step / min(10.0, (b - a) / 16)
+    dx = xs[1] - xs[0]
+    width = max(1, int(math.ceil(10.0 / dx)))
+    env = np.array([kmax[max(0, i - width):i + width + 1].max() for i in range(len(xs))])
+    env = np.maximum(env, kfloor)
+    nodes = [a]
+    while nodes[-1] < b:
+        nodes.append(nodes[-1] + step / float(np.interp(nodes[-1], xs, env)))
+    nodes = np.array(nodes)
+    return a + (nodes - a) * (b - a) / (nodes[-1] - a), float(kmax.max())
+
+
+def _transfer(coeffs, omega, nodes, N, K):
+    """Transfer matrices Phi_s (scaled state, identity at the left end of segment s)."""
+    t, Dt = _cheb(N)
+    n = coeffs(np.array([nodes[0]]), omega).shape[0] - 1
+    h = np.diff(nodes)
+    M = len(h)
+    xi = nodes[:-1, None] + h[:, None] * (1 - t[None, :]) / 2          # (M, N)
+    c = coeffs(xi.ravel(), omega).reshape(n + 1, M, N)
+    lead = c[n]
+    A = np.zeros((M, N, n, n), dtype=complex)
+    for j in range(n - 1):
+        A[:, :, j, j + 1] = K
+    for j in range(n):
+        A[:, :, n - 1, j] = -(c[j] / lead) * K ** (j - n + 1)
+    out = np.empty((M, n, n), dtype=complex)
+    I_n = np.eye(n)
+    rhs = np.zeros((N * n, n), dtype=complex)
+    rhs[:n] = I_n
+    chunk = max(1, 4_000_000 // (N * n) ** 2)
+    for s0 in range(0, M, chunk):
+        sl = slice(s0, min(M, s0 + chunk))
+        m = len(h[sl])
+        Dx = Dt[None] * (-2.0 / h[sl])[:, None, None]                  # (m, N, N)
+        big = np.einsum("sij,cd->sicjd", Dx, I_n).astype(complex)     # (m, N, n, N, n)
+        idx = np.arange(N)
+        big[:, idx, :, idx, :] -= A[sl].transpose(1, 0, 2, 3)
+        big = big.reshape(m, N * n, N * n)
+        big[:, :n, :] = 0.0
+        big[:, np.arange(n), np.arange(n)] = 1.0
+        Y = np.linalg.solve(big, np.broadcast_to(rhs, (m, N * n, n)))
+        out[sl] = Y[:, (N - 1) * n:, :]
+    return out
+
+
+def _mode_columns(modes, xe, xh, K):
+    n = len(modes)
+    E = np.empty((n, n), dtype=complex)
+    for j, md in enumerate(modes):
+        k = md.k
+        vec = (1j * k / K) ** np.arange(n)
+        if md.kind == "propagating":
+            vec = vec * md.data["amplitude"] * np.exp(1j * k.real * (xe - xh))
+        E[:, j] = vec
+    return E
+
+
+def _solve(Phi, EL, ER, fixed_zero, in_idx):
+    """Global sparse solve; returns all 2n end amplitudes for each in-mode (columns)."""
+    M, n, _ = Phi.shape
+    nY = n * (M + 1)
+    nz = nY + 2 * n
+    rows, cols, vals = [], [], []
+
+    def put(r, c, v):
+        rows.append(r), cols.append(c), vals.append(v)
+
+    r0 = 0
+    ii, jj = np.meshgrid(np.arange(n), np.arange(n), indexing="ij")
+    for s in range(M):
+        rows.extend((r0 + np.arange(n)).tolist()); cols.extend((n * (s + 1) + np.arange(n)).tolist())
+        vals.extend([1.0] * n)
+        rows.extend((r0 + ii).ravel().tolist()); cols.extend((n * s + jj).ravel().tolist())
+        vals.extend((-Phi[s]).ravel().tolist())
+        r0 += n
+    for E, yoff, aoff in ((EL, 0, nY), (ER, n * M, nY + n)):
+        for c in range(n):
+            put(r0 + c, yoff + c, 1.0)
+        rows.extend((r0 + ii).ravel().tolist()); cols.extend((aoff + jj).ravel().tolist())
+        vals.extend((-E).ravel().tolist())
+        r0 += n
+    rhs_rows = []
+    for z in fixed_zero:
+        put(r0, nY + z, 1.0); r0 += 1
+    for z in in_idx:
+        put(r0, nY + z, 1.0); rhs_rows.append(r0); r0 += 1
+    if r0 != nz:
+        raise ScatteringError(f"internal error: {r0} equations for {nz} unknowns")
+    Amat = sps.csc_matrix((np.array(vals, dtype=complex), (rows, cols)), shape=(nz, nz))
+    B = np.zeros((nz, len(in_idx)), dtype=complex)
+    for j, r in enumerate(rhs_rows):
+        B[r, j] = 1.0
+    try:
+        sol = spla.splu(Amat).solve(B)
+    except RuntimeError as exc:
+        raise ScatteringError(f"the boundary-value system is singular ({exc}); omega may be at a bound state "
+                              f"or a cut-off: move omega slightly") from exc
+    return sol[nY:]
+
+
+def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, step=3.0,
+            uniform_tol=1e-9):
+    """S-matrix of the full profile at one frequency by a stable position-space solve.
+
+    Parameters
+    ----------
+    model : HorizonModel
+        A model whose profile joins two uniform regions (e.g.
+        ``quartic_flow(..., D=0.5)``) and whose leading coefficient does not
+        vanish in the window (a dispersive model).
+    omega : float
+        Frequency, > 0, not within 1e-9 (relative) of a cut-off.
+    window : (float, float), optional
+        Integration window ``(a, b)`` containing the horizon, with uniform ends.
+        Default: ends where the profile is uniform to 1e-16 (relative).
+    rtol : float
+        Target accuracy of the S-matrix entries (unit-flux normalised).
+    points : int
+        Initial Chebyshev nodes per segment; the S-matrix is computed with
+        ``points`` and ``points + 8`` nodes and, while the two differ by more
+        than ``rtol``, again with 8 more, up to ``max_points``.
+    step : float
+        Segment length times the largest local |k|.
+    uniform_tol : float
+        Largest accepted relative deviation of the profile from uniform at a
+        user-given window end.
+
+    Returns
+    -------
+    ScatteringResult
+        ``method="direct"``; ``extra`` holds the window, segment count, nodes
+        per segment, the end deviations and the resolution difference.
+
+    Raises
+    ------
+    InputError
+        Bad omega, rtol or window; a profile that is not uniform at the
+        window ends; omega at a cut-off.
+    HorizonError
+        A window that does not contain the horizon.
+    ScatteringError
+        A singular mode equation (leading coefficient vanishing) or a mode
+        count that does not allow an S-matrix.
+
+    Examples
+    --------
+    >>> from contourkit.catalogue import quartic_flow
+    >>> m = quartic_flow(kappa=0.05, Lambda=2.5, branch="subluminal", D=0.5)
+    >>> r = scatter(m, 0.05)
+    >>> [md.name for md in r.in_modes]
+    ['ext-in-', 'ext-in+', 'ext-in+']
+    """
+    w = _check_omega(omega)
+    if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
+        raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
+    if not (isinstance(points, int) and points >= 8):
+        raise InputError(f"points must be an integer >= 8, got {points!r}")
+    if not (isinstance(max_points, int) and max_points >= points + 8):
+        raise InputError(f"max_points must be an integer >= points + 8 = {points + 8} (two resolutions are "
+                         f"compared for the error estimate), got {max_points!r}")
+    if not (isinstance(step, (int, float)) and 0 < step <= 20):
+        raise InputError(f"step (segment length times max |k|) must be in (0, 20], got {step!r}")
+    for side in ("exterior", "interior"):
+        asymptotic_dispersion(model, side)      # InputError for a profile without uniform regions
+    for c in model_cutoffs(model):
+        if abs(w - c.omega) <= CUTOFF_GUARD * c.omega:
+            raise InputError(f"omega = {w!r} is at the cut-off omega_max = {c.omega!r} ({c.side} region, within "
+                             f"{CUTOFF_GUARD:g} relative): two modes merge there and their flux normalisation "
+                             f"diverges; move omega away from the cut-off (e.g. by 1e-6 relative)")
+    a, b = _window(model, window)
+    xh = float(model.horizon)
+    dev = {"interior": deviation(model, a, "interior"), "exterior": deviation(model, b, "exterior")}
+    if window is not None:
+        for side, d in dev.items():
+            if d > uniform_tol:
+                raise InputError(
+                    f"the profile is not uniform at the window ends: at the {side} end it deviates by {d:.1e} "
+                    f"(relative) from its asymptotic value (accepted: uniform_tol={uniform_tol:g}); widen the "
+                    f"window (window=None chooses {tuple(round(v, 1) for v in default_window(model))}), use a "
+                    f"tanh profile (D=...) or the near-horizon contour method")
+    coeffs = left_form(model)
+    n = model.order
+    xs = np.linspace(a, b, 2001)
+    lead = np.abs(coeffs(xs, w)[n])
+    if lead.min() <= 1e-12 * max(lead.max(), 1e-300):
+        xbad = xs[int(np.argmin(lead))]
+        raise ScatteringError(
+            f"the leading coefficient of the mode equation vanishes near x = {xbad:.4g} (a singular point, as "
+            f"at the horizon of a non-dispersive flow); the direct solver integrates through the horizon and "
+            f"needs a dispersive model (e.g. quartic_flow); use the contour method model.scatter(omega)")
+    mL = local_modes(model, w, a, "interior")
+    mR = local_modes(model, w, b, "exterior")
+    ends = mL + mR
+    fixed_zero = [j for j, md in enumerate(ends) if md.kind == "growing"]
+    in_idx = [j for j, md in enumerate(ends) if md.direction == "in"]
+    out_idx = [j for j, md in enumerate(ends) if md.direction == "out"]
+    if len(fixed_zero) + len(in_idx) != n:
+        raise ScatteringError(
+            f"mode count {len(in_idx)} in + {len(fixed_zero)} growing != order {n} at omega = {w:g}; the "
+            f"bounded solutions cannot be labelled by in-modes (check omega against the cut-offs "
+            f"{[round(c.omega, 8) for c in model_cutoffs(model)]})")
+    in_idx = sorted(in_idx, key=lambda j: (ends[j].side != "exterior", ends[j].k.real))
+    out_idx = sorted(out_idx, key=lambda j: (ends[j].side != "exterior", ends[j].k.real))
+    nodes, kmax = _nodes(model, w, a, b, step)
+    K = max(kmax, 1e-3)
+    EL = _mode_columns(mL, a, xh, K)
+    ER = _mode_columns(mR, b, xh, K)
+    def solve(N):
+        return _solve(_transfer(coeffs, w, nodes, N, K), EL, ER, fixed_zero, in_idx)[out_idx, :]
+
+    N = points
+    prev = solve(N)
+    while True:
+        N += 8
+        S = solve(N)
+        err = float(np.max(np.abs(S - prev)))
+        if err <= rtol or N + 8 > max_points:
+            break
+        prev = S
+    in_modes = [ends[j] for j in in_idx]
+    out_modes = [ends[j] for j in out_idx]
+    eta_in = [md.norm for md in in_modes]
+    eta_out = [md.norm for md in out_modes]
+    resid = pseudo_unitarity_residual(S, eta_out, eta_in)
+    message = f"{len(in_modes)} in-modes, {len(out_modes)} out-modes; window ({a:.6g}, {b:.6g})"
+    try:
+        fig = hawking_figures(S, in_modes, out_modes, w, float(model.kappa))
+        if fig["occupation"] == 0.0:
+            message += ("; omega is above the cut-off omega_max: no in-mode of opposite norm to the Hawking "
+                        "mode exists, so beta = 0 and thermal_ratio = 0 in the stationary picture")
+    except ScatteringError:
+        fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
+                   effective_temperature=0.0, hawking_temperature=float(model.kappa) / (2 * math.pi))
+        message += ("; omega is above the cut-off omega_max: there is no propagating out-going mode on the "
+                    "exterior side (no Hawking channel), so beta = 0 and thermal_ratio = 0 are reported")
+    ratio_prev = _ratio(prev, in_modes, out_modes, fig)
+    if fig["thermal_ratio"]:
+        # resolution change of the ratio, and the noise floor of S (seen in the unitarity residual)
+        # propagated to |beta/alpha|^2: 2 delta/|beta| + 2 delta/|alpha|
+        floor = max(err, resid)
+        ratio_err = max(abs(ratio_prev - fig["thermal_ratio"]) / fig["thermal_ratio"],
+                        2 * floor / abs(fig["beta"]) + 2 * floor / abs(fig["alpha"]))
+    else:
+        ratio_err = err
+    if fig["thermal_ratio"] > 0 and ratio_err > 1e-2:
+        message += (f"; the thermal ratio {fig['thermal_ratio']:.2e} is at the level of the S-matrix error "
+                    f"{err:.1e}: only its order of magnitude is meaningful")
+    success = err <= rtol
+    if not success:
+        warnings.warn(f"direct.scatter: resolution difference {err:.2e} > rtol = {rtol:g} at omega = {w:g} "
+                      f"with {N} Chebyshev nodes per segment; lower step= or raise max_points=",
+                      AccuracyWarning, stacklevel=2)
+        message += f"; accuracy {err:.1e} not reached rtol {rtol:g}"
+    return ScatteringResult(
+        omega=w, in_modes=in_modes, out_modes=out_modes, S=S, unitarity_residual=resid,
+        hawking_index=fig["hawking_index"], alpha=fig["alpha"], beta=fig["beta"], others=fig["others"],
+        thermal_ratio=fig["thermal_ratio"], occupation=fig["occupation"],
+        effective_temperature=fig["effective_temperature"], hawking_temperature=fig["hawking_temperature"],
+        kappa=float(model.kappa), dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
+        success=success, message=message, method="direct",
+        extra={"window": (a, b), "segments": len(nodes) - 1, "points": N, "resolution_difference": err,
+               "end_deviation": dev, "step": step})
+
+
+def _ratio(S, in_modes, out_modes, fig):
+    """Thermal ratio of an S-matrix at another resolution (for the error estimate)."""
+    if S is None or fig["hawking_index"] is None:
+        return fig["thermal_ratio"]
+    return hawking_figures(S, in_modes, out_modes, 1.0, 1.0)["thermal_ratio"]

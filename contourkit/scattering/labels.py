@@ -1,0 +1,227 @@
+"""Labels of WKB modes: side, in/out, norm sign, and the near-horizon root each far mode continues to.
+
+For a real root k of the local dispersion relation D(k; x) = 0: group
+velocity ``v_g = -(dD/dk)/(dD/domega)``, norm sign ``sign(dD/domega)``, in
+or out from sign(v_g) and the side.  Far from the horizon the linearised
+model can flip a mode's norm and direction together (its flow speed grows
+without bound, a resonance frequency squared passes through zero); the
+labels are therefore read where the linearised profile still describes the
+background (see :func:`_near_horizon_labels`), following each root in x
+(:func:`_track_root`) or, where it turns back first, at its turning point
+(:func:`turning_mode`).
+
+References
+----------
+.. [1] F. P. Bretherton, C. J. R. Garrett, Proc. R. Soc. A 302 (1968) 529
+   (wave action: density ~ |a|^2 dD/domega, flux ~ |a|^2 dD/dk).
+"""
+import math
+
+import mpmath
+import numpy as np
+
+from ..errors import ScatteringError
+from .results import Mode
+
+
+def _side(x):
+    return "exterior" if x > 0 else "interior"
+
+
+def growth_kind(k, x):
+    """"growing" or "decaying" for a complex wavenumber at x: growing away from the horizon
+    (Im k < 0 on the exterior x > 0, Im k > 0 on the interior)."""
+    return "growing" if (k.imag < 0) == (x > 0) else "decaying"
+
+
+def _label(side, k, x, dd, origin):
+    """Mode labels for a real wavenumber k at x."""
+    dk = complex(dd.dDdk(k, x))
+    dw = complex(dd.dDdw(k, x))
+    if dw == 0:
+        raise ScatteringError(f"dD/domega vanishes for the mode k = {complex(k):.6g} at x = {x}: its norm is zero")
+    vg = -dk.real / dw.real
+    toward = vg < 0 if side == "exterior" else vg > 0
+    return Mode(side=side, direction="in" if toward else "out", norm=1 if dw.real > 0 else -1,
+                kind="propagating", k=complex(k), group_velocity=vg, origin=origin, x=x)
+
+
+def _horner(c, z):
+    """Polynomial value by Horner's rule for a short list of Python numbers (faster than np.polyval)."""
+    v = 0.0
+    for a in c:
+        v = v * z + a
+    return v
+
+
+def turning_mode(dd, side, k, x, x_far, dk_sign):
+    """Labels of a mode that turns back at a turning point near (k, x), read just outside it.
+
+    The turning point (k_t, x_t) solves D = dD/dk = 0 (Newton's method in the
+    two real unknowns, double precision, from the last real point (k, x) of
+    the tracked root).  The labels are read at ``x_b = 1.01 x_t`` (towards the
+    far region) on the root of the mode's own branch (the sign of dD/dk along a branch
+    does not change before the turning point: ``dk_sign``), so that the
+    group velocity is definite and does not depend on the tracking steps.
+    Returns the Mode at (k_b, x_b), or None if Newton's method fails.
+    """
+    s0, s1 = np.real(dd.s0_np), np.real(dd.s1_np)
+    d0, d1 = np.polyder(s0), np.polyder(s1)
+    dd0, dd1 = np.polyder(d0), np.polyder(d1)
+    c0, c1, e0, e1, f0, f1 = ([float(v) for v in a] for a in (s0, s1, d0, d1, dd0, dd1))
+    kt, xt = float(k), float(x)
+    for _ in range(200):
+        vs1, vd1 = _horner(c1, kt), _horner(e1, kt)
+        F1 = _horner(c0, kt) + xt * vs1
+        F2 = _horner(e0, kt) + xt * vd1
+        a, b = F2, vs1
+        c, d = _horner(f0, kt) + xt * _horner(f1, kt), vd1
+        det = a * d - b * c
+        if det == 0 or not math.isfinite(det):
+            return None
+        dk, dx = (F1 * d - b * F2) / det, (a * F2 - c * F1) / det
+        damp = min(1.0, 0.05 * (1 + abs(x)) / max(abs(dx), 1e-300), 0.05 * (1 + abs(k)) / max(abs(dk), 1e-300))
+        dk, dx = damp * dk, damp * dx
+        kt, xt = kt - dk, xt - dx
+        if abs(dk) <= 1e-13 * (1 + abs(kt)) and abs(dx) <= 1e-13 * (1 + abs(xt)):
+            break
+    else:
+        return None
+    if abs(xt - x) > 0.2 * abs(x) or abs(kt - k) > 0.2 * (1 + abs(k)) or not abs(xt) < abs(x_far):
+        return None              # not the turning point where the tracked root left the real axis
+    xb = 1.01 * xt                     # 1% further from the horizon, towards the far region
+    roots = np.roots(np.polyadd(s0, xb * s1))
+    roots = roots[np.abs(roots.imag) <= 1e-9 * np.maximum(1.0, np.abs(roots))].real
+    if roots.size < 2:
+        return None
+    pair = roots[np.argsort(np.abs(roots - kt))[:2]]
+    own = [r for r in pair if np.sign(np.polyval(d0, r) + xb * np.polyval(d1, r)) == dk_sign]
+    if len(own) != 1:
+        return None
+    return _label(side, float(own[0]), float(xb), dd, "")
+
+
+def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
+    """Follow a real root of D(k; x) from x_from towards x_to (same sign) by Newton continuation.
+
+    Stops where the root leaves the real axis (a turning point: the mode does
+    not exist closer in); returns the root and the position where it was last
+    real.  Double precision: only the signs of dD/dk and dD/domega there are used.
+    """
+    r = complex(r)
+    last = (r, x_from)
+    s0, s1 = dd.s0_np, dd.s1_np
+    d0, d1 = np.polyder(s0), np.polyder(s1)
+    for t in range(1, steps + 1):
+        x = x_from * (x_to / x_from) ** (t / steps)
+        c = [complex(v) for v in np.polyadd(s0, x * s1)]
+        dc = [complex(v) for v in np.polyadd(d0, x * d1)]
+        rn = r
+        converged = False
+        for _ in range(60):
+            step = _horner(c, rn) / _horner(dc, rn)
+            rn -= step
+            if abs(step) < 1e-14 * (1 + abs(rn)):
+                converged = True
+                break
+        # from a real start Newton's iterates stay real: past a turning point they do not converge
+        if not converged or abs(rn.imag) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-300:
+            break
+        r = complex(rn.real)
+        last = (r, x)
+    return last
+
+
+def _flux_sign(m):
+    """Direction of the conserved (wave-action) flux of a mode along x: sign(norm * v_g) = -sign(dD/dk)."""
+    return m.norm * (1 if m.group_velocity > 0 else -1)
+
+
+def _relabel(md, near, labels):
+    """Record the near-horizon mode of md (and take its labels when ``labels``)."""
+    md.mode.data["near_horizon"] = {"k": near.k, "x": near.x, "group_velocity": near.group_velocity}
+    if labels:
+        md.mode.norm, md.mode.direction = near.norm, near.direction
+        md.mode.group_velocity, md.mode.x = near.group_velocity, near.x
+
+
+def _near_horizon_labels(out, far_k, x, label_x, dd):
+    """Give each propagating far mode the labels (norm, direction) of the near-horizon mode it continues to.
+
+    Far out the linearised profile stops describing the background (a flow's
+    speed grows without bound, a resonance frequency squared passes through
+    zero), which can flip a mode's norm and direction together; the flux
+    direction sign(norm v_g) = -sign(dD/dk) and the flux constant do not
+    change.  Boundary conditions (which modes are in-modes) belong to the
+    near-horizon region, so labels are read at ``label_x``:
+
+    * a real root that can be followed from x to label_x takes the labels of
+      the near-horizon root it reaches when its norm differs there (the
+      artefact flips norm and direction together; otherwise far labels stand);
+    * roots that turn complex on the way (a turning point or a coalescence
+      between x and label_x) are matched with the near-horizon real roots
+      that no followed root reached, by flux direction, the one label that a
+      flux-conserving connection cannot change.  The match must be unique
+      (same numbers of each flux direction, one label per direction), else
+      ScatteringError.  If no near-horizon root is left over, the mode turns
+      back before the near-horizon region and keeps the labels at the last
+      point where its root is real.
+
+    Each labelled mode records its near-horizon root in
+    ``mode.data["near_horizon"]`` (keys k, x, group_velocity).
+    """
+    if label_x is None or label_x == x:
+        return
+    key = (x, label_x, tuple(far_k))
+    cache = dd.__dict__.setdefault("_near_labels", {})   # labels do not depend on the working precision
+    if key not in cache:
+        cache[key] = _near_label_plan(far_k, x, label_x, dd)
+    for i, near, take in cache[key]:
+        _relabel(out[i], near, take)
+
+
+def _near_label_plan(far_k, x, label_x, dd):
+    """(position, near-horizon Mode, take its labels) for the propagating far modes; see above."""
+    side = _side(x)
+    near = []
+    for r in dd.roots(label_x, 20):
+        rc = complex(r)
+        if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
+            near.append(_label(side, mpmath.mpf(rc.real), label_x, dd, "near horizon"))
+    far = {i: _label(side, mpmath.mpf(k), x, dd, "") for i, k in enumerate(far_k) if k is not None}
+    claimed, pending, plan = set(), [], []
+    for i, fm in far.items():
+        r, xl = _track_root(dd, far_k[i], x, label_x)
+        if abs(xl - label_x) > 1e-9 * abs(label_x) or not near:
+            pending.append((i, r, xl))
+            continue
+        # along a real branch dD/dk keeps its sign (it vanishes only at turning points), so the
+        # flux direction picks the branch where two near-horizon roots are close together
+        same = [q for q in range(len(near)) if _flux_sign(near[q]) == _flux_sign(fm)]
+        j = min(same, key=lambda q: abs(near[q].k - r)) if same else -1
+        if j < 0 or j in claimed or abs(near[j].k - r) > 0.1 * max(1.0, abs(r)):
+            raise ScatteringError(f"the root k = {far_k[i]:.6g} at x = {x} does not continue to a distinct "
+                                  f"near-horizon root at x = {label_x}; the mode cannot be labelled")
+        claimed.add(j)
+        plan.append((i, near[j], near[j].norm != fm.norm))
+    free = [m for j, m in enumerate(near) if j not in claimed]
+    if not free:
+        for i, r, xl in pending:
+            last = turning_mode(dd, side, complex(r).real, float(xl), x, -_flux_sign(far[i]))
+            if last is None:
+                last = _label(side, mpmath.mpf(complex(r).real), float(xl), dd, "")
+            plan.append((i, last, last.norm != far[i].norm))
+        return plan
+    want = sorted(_flux_sign(far[i]) for i, _, _ in pending)
+    have = sorted(_flux_sign(m) for m in free)
+    groups = {g: {(m.norm, m.direction) for m in free if _flux_sign(m) == g} for g in set(have)}
+    if want != have or any(len(g) != 1 for g in groups.values()):
+        ks = ", ".join(f"{far_k[i]:.4g}" for i, _, _ in pending)
+        raise ScatteringError(f"on the {side} side the modes k = {ks} at x = {x} do not continue to the "
+                              f"near-horizon region at x = {label_x} (their roots turn complex on the way) and "
+                              f"their flux directions do not match the remaining near-horizon modes one to one: "
+                              f"the linearised model's far region is not a continuation of the near-horizon "
+                              f"region; use contourkit.direct.scatter on the full profile")
+    for i, _, _ in pending:
+        plan.append((i, next(m for m in free if _flux_sign(m) == _flux_sign(far[i])), True))
+    return plan
