@@ -1,26 +1,14 @@
-"""Frequency scans that survive interruption: row-by-row tables, resume, parallel workers.
+"""Frequency scans that survive interruption: the grid, the scan entry point, JSON output.
 
-:func:`scan` computes the near-horizon scattering figures of a horizon model
-(:meth:`HorizonModel.scatter <contourkit.symbolic.horizon.HorizonModel.scatter>`) on a
-list of frequencies and writes each row to a CSV table the moment it is
-known, so that a scan stopped by a crash, a kill or a lost connection loses
-only the rows still being computed.
-
-Table, resume and workers
--------------------------
-One header line with the columns of :data:`COLUMNS`, then one line per
-frequency in the order given (rows that finish early wait for the rows
-before them, so the file does not depend on the number of workers).  Each
-line is one ``os.write`` of the complete line to a file opened with
-``O_APPEND``, then ``os.fsync``.  Running the same scan on the same file
-again drops a trailing partial line, keeps the complete rows and computes
-only the frequencies whose ``repr(float(omega))`` is not yet in the omega
-column, so the finished file equals that of an uninterrupted run.
-``workers=N`` runs N local processes
-(:class:`concurrent.futures.ProcessPoolExecutor`); ``scheduler=ADDRESS``
-sends the work to a Dask cluster (``pip install "contourkit[dask]"``; the
-workers must import contourkit).  The model is pickled to the workers;
-mpmath's precision is process-wide, so one process computes one row at a time.
+:func:`scan` is the long-run front end of the spectrum engine
+(:func:`contourkit.scans.engine.spectrum`, also ``model.spectrum``): it
+writes each row to a CSV table the moment it is known
+(:mod:`contourkit.scans.table`: a fingerprint line, the header, rows in grid
+order), resumes an interrupted table, refuses a table of another run with a
+message naming the difference, and runs on local worker processes (by
+default every core) or a Dask cluster.  :func:`omega_grid` makes the
+frequency grids of the command line; :func:`write_json` writes a finished
+run with its fingerprint.
 
 Examples
 --------
@@ -33,34 +21,17 @@ Examples
 >>> scan(m, omega_grid(0.01, 0.03, points=3), out=path, workers=1).computed
 0
 """
-import csv
-import io
 import json
 import math
 import os
-import sys
-import threading
 import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from ..errors import ContourkitError, InputError
-
-#: the columns of a scan table, in order
-COLUMNS = ("omega", "occupation", "thermal_ratio", "effective_temperature", "hawking_temperature",
-           "temperature_ratio", "unitarity_residual", "n_in", "dps", "error_estimate", "success",
-           "method", "message")
-_INT = ("n_in", "dps")
-_FLOAT = ("omega", "occupation", "thermal_ratio", "effective_temperature", "hawking_temperature",
-          "temperature_ratio", "unitarity_residual", "error_estimate")
-# mpmath's precision is one setting per process; rows computed in threads of one
-# process (Dask workers with several threads) take turns.
-_PRECISION_LOCK = threading.Lock()
-
-
-class ScanError(ContourkitError):
-    """A scan cannot start or go on (output table of another kind, busy file, ...)."""
+from .engine import make_row, spectrum
+from .table import COLUMNS, RunMismatchError, ScanError, read_table
 
 
 @dataclass
@@ -78,12 +49,15 @@ class ScanResult:
         Rows computed by this call.
     resumed : int
         Rows found in the table from an earlier run and not recomputed.
+    fingerprint : dict or None
+        The run fingerprint (:mod:`contourkit.scans.fingerprint`).
     """
     rows: list
     path: object = None
     computed: int = 0
     resumed: int = 0
     columns: tuple = field(default=COLUMNS)
+    fingerprint: object = field(default=None, repr=False)
 
 
 def omega_grid(start, stop, *, points, log=False):
@@ -129,11 +103,11 @@ def _one_line(text):
 
 
 def compute_row(model, omega, *, dps=None, record_errors=False):
-    """The table row of one frequency (run in the worker processes).
+    """The table row of one frequency, traced on its own (no following).
 
     Parameters
     ----------
-    model : HorizonModel
+    model : HorizonModel (or any object with ``scatter(omega, dps=)``)
     omega : float
     dps : int, optional
         Correct digits wanted (see :func:`contourkit.scattering.scatter`).
@@ -147,173 +121,16 @@ def compute_row(model, omega, *, dps=None, record_errors=False):
         The fields of :data:`COLUMNS`; warnings raised on the way are
         appended to ``message``.
     """
-    with _PRECISION_LOCK, warnings.catch_warnings(record=True) as caught:
+    with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         try:
-            res = model.scatter(omega, dps=dps)
+            res, err = model.scatter(omega, dps=dps), None
         except ContourkitError as exc:
             if not record_errors:
                 raise
-            row = {c: None for c in COLUMNS}
-            row.update(omega=float(omega), success=False, method="contour",
-                       message=_one_line(f"{type(exc).__name__}: {exc}"))
-            return row
-    row = res.as_row()
-    notes = sorted({_one_line(f"{w.category.__name__}: {w.message}") for w in caught})
-    row["message"] = _one_line("; ".join([res.message] + notes))
-    return {c: row.get(c) for c in COLUMNS}
-
-
-def _format_line(row):
-    buf = io.StringIO()
-    csv.writer(buf, lineterminator="\n").writerow(["" if row[c] is None else row[c] for c in COLUMNS])
-    return buf.getvalue().encode("utf-8")
-
-
-def _typed(raw):
-    out = {}
-    for c in COLUMNS:
-        v = raw.get(c, "")
-        if v == "" or v is None:
-            out[c] = None
-        elif c in _FLOAT:
-            out[c] = float(v)
-        elif c in _INT:
-            out[c] = int(v)
-        elif c == "success":
-            out[c] = v == "True"
-        else:
-            out[c] = v
-    return out
-
-
-def read_table(path):
-    """The complete rows of a scan table, typed (a trailing partial line is ignored).
-
-    Parameters
-    ----------
-    path : str or os.PathLike
-
-    Returns
-    -------
-    list of dict
-    """
-    with open(path, "rb") as fh:
-        data = fh.read()
-    return _parse(path, data[: data.rfind(b"\n") + 1])
-
-
-def _parse(path, data):
-    if not data:
-        return []
-    reader = csv.reader(io.StringIO(data.decode("utf-8")))
-    header = next(reader, None)
-    if tuple(header or ()) != COLUMNS:
-        raise ScanError(f"{path} exists and is not a contourkit spectrum table (its first line is not the "
-                        f"header {','.join(COLUMNS)}); give another output file or remove it")
-    rows = []
-    for i, fields in enumerate(reader, start=2):
-        if len(fields) != len(COLUMNS):
-            raise ScanError(f"{path}, line {i}: {len(fields)} fields instead of {len(COLUMNS)}; the table was "
-                            f"edited or written by something else: give another output file or remove it")
-        rows.append(_typed(dict(zip(COLUMNS, fields))))
-    return rows
-
-
-class _Table:
-    """The output file: opened for appending, locked, resumed."""
-
-    def __init__(self, path):
-        self.path = os.fspath(path)
-        self.fd = os.open(self.path, os.O_RDWR | os.O_APPEND | os.O_CREAT, 0o644)
-        try:
-            self._lock()
-            data = b""
-            while chunk := os.read(self.fd, 1 << 20):
-                data += chunk
-            keep = data.rfind(b"\n") + 1
-            if keep < len(data):          # a write cut short: drop the partial line
-                os.ftruncate(self.fd, keep)
-            self.rows = _parse(self.path, data[:keep])
-            if keep == 0:
-                self.write(",".join(COLUMNS).encode() + b"\n")
-        except BaseException:
-            os.close(self.fd)
-            raise
-
-    def _lock(self):
-        try:
-            import fcntl
-        except ImportError:  # pragma: no cover - not POSIX
-            return
-        try:
-            fcntl.flock(self.fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
-        except BlockingIOError:
-            raise ScanError(f"{self.path} is being written by another scan; wait for it or give another "
-                            f"output file") from None
-
-    def write(self, line):
-        n = os.write(self.fd, line)
-        if n != len(line):  # pragma: no cover - regular files take the whole write
-            raise OSError(f"short write to {self.path}")
-        os.fsync(self.fd)
-
-    def close(self):
-        os.close(self.fd)
-
-
-class _Ordered:
-    """Hold rows that finish early until every row before them is written."""
-
-    def __init__(self, sink):
-        self.sink, self.next, self.held = sink, 0, {}
-
-    def put(self, i, row):
-        self.held[i] = row
-        while self.next in self.held:
-            self.sink(self.held.pop(self.next))
-            self.next += 1
-
-
-def _local(model, todo, put, *, workers, dps, record):
-    if workers <= 1 or len(todo) <= 1:
-        for i, w in enumerate(todo):
-            put(i, compute_row(model, w, dps=dps, record_errors=record))
-        return
-    from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
-    with ProcessPoolExecutor(max_workers=min(workers, len(todo))) as pool:
-        futures = {pool.submit(compute_row, model, w, dps=dps, record_errors=record): i
-                   for i, w in enumerate(todo)}
-        try:
-            pending = set(futures)
-            while pending:
-                done, pending = wait(pending, return_when=FIRST_COMPLETED)
-                for f in sorted(done, key=futures.get):
-                    put(futures[f], f.result())
-        except BaseException:
-            pool.shutdown(wait=False, cancel_futures=True)
-            raise
-
-
-def _dask(model, todo, put, *, scheduler, dps, record):
-    try:
-        from distributed import Client, as_completed
-    except ImportError:
-        raise InputError("a Dask scheduler needs dask.distributed: pip install \"contourkit[dask]\"") from None
-    try:
-        client = Client(scheduler, timeout=10, set_as_default=False)
-    except (OSError, TimeoutError) as exc:
-        raise ScanError(f"cannot reach the Dask scheduler at {scheduler}: {_one_line(exc)}") from None
-    try:
-        shared = client.scatter(model, broadcast=True)
-        futures = [client.submit(compute_row, shared, w, dps=dps, record_errors=record, pure=False)
-                   for w in todo]
-        index = {f.key: i for i, f in enumerate(futures)}
-        with client.as_current():
-            for f in as_completed(futures):
-                put(index[f.key], f.result())
-    finally:
-        client.close()
+            res, err = None, _one_line(f"{type(exc).__name__}: {exc}")
+    return make_row(model, float(omega), res, err, sorted({_one_line(f"{w.category.__name__}: {w.message}")
+                                                           for w in caught}))
 
 
 def default_workers():
@@ -325,7 +142,7 @@ def default_workers():
 
 
 def scan(model, omegas, *, out=None, workers=None, scheduler=None, progress=None, dps=None,
-         on_error="stop"):
+         on_error="stop", restart=False):
     """Scattering figures over frequencies, written row by row and resumable.
 
     Parameters
@@ -342,15 +159,16 @@ def scan(model, omegas, *, out=None, workers=None, scheduler=None, progress=None
     scheduler : str, optional
         Address of a Dask scheduler (``tcp://host:8786``); overrides workers.
     progress : bool, optional
-        Progress bar on stderr (tqdm, if installed); default: when stderr is a
-        terminal.
+        Progress bar on stderr; default: when stderr is a terminal.
     dps : int, optional
         Correct significant digits of each S-matrix (see
-        :func:`contourkit.scattering.scatter`).
-    on_error : {"stop", "record"}
-        "stop": the first failing frequency stops the scan with its error (rows
-        before it are kept); "record": it gets a row with ``success = False``
-        and the error in ``message``.
+        :func:`contourkit.scattering.scatter`); default: relative accuracy 1e-12.
+    on_error : {"stop", "raise", "record"}
+        "stop" (or "raise"): the first failing frequency stops the scan with
+        its error (rows before it are kept); "record": it gets a row with
+        ``success = False`` and the error in ``message``.
+    restart : bool
+        Empty ``out`` first instead of resuming it.
 
     Returns
     -------
@@ -361,68 +179,22 @@ def scan(model, omegas, *, out=None, workers=None, scheduler=None, progress=None
     InputError
         Bad frequencies or options.
     ScanError
-        The output file is not a scan table or is being written by another scan.
+        The output file is not a scan table, holds another run
+        (:class:`~contourkit.scans.table.RunMismatchError`) or is being
+        written by another scan.
     OSError
         The output file cannot be opened or written.
     """
-    if on_error not in ("stop", "record"):
+    if on_error not in ("stop", "raise", "record"):
         raise InputError(f"on_error must be 'stop' or 'record', got {on_error!r}")
-    try:
-        ws = [float(w) for w in omegas]
-    except (TypeError, ValueError):
-        raise InputError(f"omegas must be a sequence of numbers, got {omegas!r}") from None
-    bad = [w for w in ws if not (math.isfinite(w) and w > 0)]
-    if not ws or bad:
-        raise InputError(f"the frequencies must be positive and finite (got {bad[0]!r})" if bad else
-                         "no frequencies to scan; give at least one")
-    if workers is None:
+    if scheduler is None and workers is None:
         workers = default_workers()
-    if isinstance(workers, bool) or not isinstance(workers, (int, np.integer)) or workers < 1:
-        raise InputError(f"workers must be a positive integer, got {workers!r}")
-    table = _Table(out) if out is not None else None
-    try:
-        rows = list(table.rows) if table else []
-        done = {repr(r["omega"]) for r in rows}
-        resumed = sum(repr(w) in done for w in dict.fromkeys(ws))
-        todo = [w for w in dict.fromkeys(ws) if repr(w) not in done]
-        bar = _bar(progress, total=resumed + len(todo), initial=resumed)
-
-        def sink(row):
-            if table:
-                table.write(_format_line(row))
-            rows.append(row)
-            if bar is not None:
-                bar.update(1)
-
-        put = _Ordered(sink).put
-        record = on_error == "record"
-        try:
-            if scheduler is not None:
-                _dask(model, todo, put, scheduler=scheduler, dps=dps, record=record)
-            else:
-                _local(model, todo, put, workers=int(workers), dps=dps, record=record)
-        finally:
-            if bar is not None:
-                bar.close()
-    finally:
-        if table:
-            table.close()
-    if table:
-        rows = read_table(out)
-    return ScanResult(rows=rows, path=None if out is None else os.fspath(out), computed=len(todo),
-                      resumed=resumed)
-
-
-def _bar(progress, *, total, initial):
-    if progress is None:
-        progress = hasattr(sys.stderr, "isatty") and sys.stderr.isatty()
-    if not progress:
-        return None
-    try:
-        from tqdm import tqdm
-    except ImportError:
-        return None
-    return tqdm(total=total, initial=initial, desc="spectrum", unit="omega", file=sys.stderr)
+    if scheduler is not None:
+        workers = None
+    spec = spectrum(model, omegas, on_error="record" if on_error == "record" else "raise", workers=workers,
+                    scheduler=scheduler, out=out, progress=progress, dps=dps, restart=restart)
+    return ScanResult(rows=spec.rows, path=spec.path, computed=spec.computed, resumed=spec.resumed,
+                      fingerprint=spec.fingerprint)
 
 
 def write_json(result, path, *, metadata=None):
@@ -434,9 +206,13 @@ def write_json(result, path, *, metadata=None):
     path : str or os.PathLike
     metadata : dict, optional
         Stored under ``"model"`` (name, kappa, ...).
+
+    The document holds ``"fingerprint"`` (the run fingerprint, as in the
+    first line of the CSV table), ``"columns"``, ``"model"`` and ``"rows"``.
     """
     path = os.fspath(path)
-    doc = {"columns": list(COLUMNS), "model": dict(metadata or {}), "rows": result.rows}
+    doc = {"fingerprint": getattr(result, "fingerprint", None), "columns": list(COLUMNS),
+           "model": dict(metadata or {}), "rows": result.rows}
     tmp = f"{path}.tmp{os.getpid()}"
     try:
         with open(tmp, "w", encoding="utf-8") as fh:
@@ -449,4 +225,4 @@ def write_json(result, path, *, metadata=None):
 
 
 __all__ = ["scan", "omega_grid", "compute_row", "read_table", "write_json", "default_workers",
-           "ScanResult", "ScanError", "COLUMNS"]
+           "ScanResult", "ScanError", "RunMismatchError", "COLUMNS"]

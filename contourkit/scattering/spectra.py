@@ -22,7 +22,7 @@ import warnings
 import mpmath
 import numpy as np
 
-from ..errors import AccuracyWarning, InputError, ScatteringError
+from ..errors import AccuracyWarning, ContourkitError, InputError, ScatteringError
 from .results import RowTable
 from .smatrix import _finish, _prepare, _result, _scatter
 
@@ -68,30 +68,76 @@ def _continued(model, family, state, omega, dps, geometry=None):
 
 
 class Spectrum(RowTable):
-    """Rows of scattering figures, one per frequency.
+    """Rows of scattering figures, one per frequency, in the order of the grid.
 
     Attributes
     ----------
     rows : list of dict
-        Keys: omega, occupation (|beta|^2), thermal_ratio (|beta/alpha|^2),
-        effective_temperature, hawking_temperature, temperature_ratio
-        (T_eff/T_H), unitarity_residual, n_in, dps (working precision used),
-        error_estimate, success, method, message.
-    results : list of ScatteringResult
+        Keys (docs/vocabulary.md): omega, occupation (|beta|^2), thermal_ratio
+        (|beta/alpha|^2), effective_temperature, hawking_temperature,
+        temperature_ratio (T_eff/T_H), unitarity_residual, n_in, dps (working
+        precision used), error_estimate, success, method, message; more keys
+        (validity, hawking_channel) where the engine provides them.  A
+        frequency recorded as failed (``on_error="record"``) has None values
+        and its error in ``message``.
+    results : list of ScatteringResult or None
+        None for a failed row and for rows resumed from a file.
+    path : str or None
+        The CSV file the rows were written to (``out=``), else None.
+    computed, resumed : int
+        Rows computed by this call and rows read back from an earlier run.
+    fingerprint : dict or None
+        The run fingerprint written into the file (see :mod:`contourkit.scans.fingerprint`).
     """
 
-    def __init__(self, rows, results):
+    def __init__(self, rows, results, *, path=None, computed=None, resumed=0, fingerprint=None):
         super().__init__(rows)
-        self.results = results
+        self.results = list(results)
+        self.path = path
+        self.computed = len(self.rows) - resumed if computed is None else computed
+        self.resumed = resumed
+        self.fingerprint = fingerprint
 
     def column(self, key):
-        """One column as a numpy array (floats)."""
-        return np.array([float(v) for v in super().column(key)])
+        """One column as a numpy array of floats (NaN marks a failed row's missing value)."""
+        return np.array([np.nan if v is None else float(v) for v in super().column(key)])
+
+    def __repr__(self):
+        from .display import spectrum_repr
+        return spectrum_repr(self)
+
+    def _repr_html_(self):
+        from .display import spectrum_html
+        return spectrum_html(self)
 
 
-def _sweep(args):
-    """scatter() at increasing frequencies, following the traced geometry in omega where it can."""
-    model, ws, digits, follow, progress = args
+def _one_line(text):
+    return " ".join(str(text).split())
+
+
+def follow_rows(model, ws, digits, *, follow=True, record=False, on_result=None):
+    """scatter() at increasing frequencies, following the traced geometry in omega where it can.
+
+    The geometry is traced at the first frequency and followed to the next
+    ones; a frequency where following fails is traced afresh.  With
+    ``record`` a frequency whose S-matrix cannot be built gives
+    ``(None, message)`` and the next frequency is traced afresh; otherwise
+    the :class:`~contourkit.errors.ContourkitError` propagates.
+
+    Parameters
+    ----------
+    model : HorizonModel
+    ws : list of float, increasing
+    digits : int, correct digits wanted
+    follow : bool
+    record : bool
+    on_result : callable, optional
+        Called with ``(index, result_or_None, error_or_None)`` as each frequency finishes.
+
+    Returns
+    -------
+    list of (ScatteringResult or None, str or None)
+    """
     from .sweep import Lost, family as family_of
     family, state, out = None, None, []
 
@@ -104,33 +150,52 @@ def _sweep(args):
             return _continued(model, family, st, w, digits, geometry="traced")
         except Lost:
             return None
-    if progress:
+    for i, w in enumerate(ws):
+        res, err = None, None
         try:
-            from tqdm import tqdm
-            ws = tqdm(ws, desc="spectrum", unit="omega")
-        except ImportError:  # pragma: no cover
-            pass
-    for w in ws:
-        res = None
-        if state is not None:
-            try:
-                res, state = _continued(model, family, state, w, digits)
-            except Lost:
-                res = None
-        if res is None:
-            keep = {"fast": fast if digits <= 10 else None} if follow else None
-            res = _scatter(model, w, digits, keep)
-            state = keep.get("state") if follow else None
-            if state is not None and family is None:
+            if state is not None:
                 try:
-                    family = family_of(model)
-                except Lost:            # coefficients not polynomial in omega: trace every frequency
-                    state = None
-        out.append(res)
+                    res, state = _continued(model, family, state, w, digits)
+                except Lost:
+                    res = None
+            if res is None:
+                keep = {"fast": fast if digits <= 10 else None} if follow else None
+                res = _scatter(model, w, digits, keep)
+                state = keep.get("state") if follow else None
+                if state is not None and family is None:
+                    try:
+                        family = family_of(model)
+                    except Lost:            # coefficients not polynomial in omega: trace every frequency
+                        state = None
+        except ContourkitError as exc:
+            if not record:
+                raise
+            res, err, state = None, _one_line(f"{type(exc).__name__}: {exc}"), None
+        out.append((res, err))
+        if on_result is not None:
+            on_result(i, res, err)
     return out
 
 
-def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, follow=True):
+def _sweep(args):
+    model, ws, digits, follow, record = args
+    return follow_rows(model, ws, digits, follow=follow, record=record)
+
+
+def result_row(res, error=None, *, omega=None):
+    """The table row of one frequency: the result's figures, or None values and the error."""
+    if res is None:
+        return {"omega": float(omega), "occupation": None, "thermal_ratio": None, "effective_temperature": None,
+                "hawking_temperature": None, "temperature_ratio": None, "unitarity_residual": None,
+                "n_in": None, "dps": None, "error_estimate": None, "success": False, "method": None,
+                "message": error or ""}
+    row = res.as_row()
+    row["dps"] = res.dps if res.dps is not None else row.get("dps")
+    row["message"] = res.message
+    return row
+
+
+def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_error="raise"):
     """Scattering figures over frequencies, correct also for exponentially small |beta|^2.
 
     Each frequency gets the S-matrix of :func:`scatter`: the geometry is traced
@@ -148,14 +213,19 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
     omegas : sequence of positive floats
     rtol : float, relative accuracy requested for thermal_ratio and occupation
     dps : int, optional, number of correct digits (overrides rtol)
-    progress : bool, show a progress bar (tqdm, if installed)
-    workers : int, number of local processes (default 1; for resumable and
-        cluster scans use :func:`contourkit.scans.resumable.scan`)
+    workers : int, number of local processes (default 1).  ``model.spectrum``
+        is the general engine (:func:`contourkit.scans.engine.spectrum`: files,
+        resumption, progress, the direct method); this function is its
+        contour-method core.
     follow : bool, follow the traced geometry from one frequency to the next
         (:mod:`contourkit.scattering.sweep`; default True).  Each followed frequency is
         checked (matching, labels, unitarity) and traced afresh if a check
         fails; ``results[i].extra["geometry"]`` says which was done.  False
         traces every frequency (as :func:`scatter` does).
+    on_error : {"raise", "record"}
+        "record": a frequency whose S-matrix cannot be built gives a row with
+        None values, ``success = False`` and the error in ``message``; the
+        other frequencies are computed.
 
     Returns
     -------
@@ -164,7 +234,8 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
     Examples
     --------
     >>> import contourkit as ck
-    >>> spec = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5).spectrum([0.02, 0.05])
+    >>> from contourkit.scattering.spectra import spectrum
+    >>> spec = spectrum(ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5), [0.02, 0.05])
     >>> [round(r["temperature_ratio"], 3) for r in spec]
     [1.0, 1.0]
     """
@@ -181,6 +252,9 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
         raise InputError(f"workers must be a positive integer, got {workers!r}")
     if not isinstance(follow, bool):
         raise InputError(f"follow must be True or False, got {follow!r}")
+    if on_error not in ("raise", "record"):
+        raise InputError(f"on_error must be 'raise' or 'record', got {on_error!r}")
+    record = on_error == "record"
     order = sorted(range(len(ws)), key=lambda i: ws[i])
     done = [None] * len(ws)
     n = min(int(workers), len(ws))
@@ -188,17 +262,12 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
     if n > 1:
         from concurrent.futures import ProcessPoolExecutor
         with ProcessPoolExecutor(max_workers=n) as pool:
-            for idx, res in zip(chunks, pool.map(_sweep, [(model, [ws[i] for i in c], digits, follow, False)
+            for idx, res in zip(chunks, pool.map(_sweep, [(model, [ws[i] for i in c], digits, follow, record)
                                                           for c in chunks])):
                 for i, r in zip(idx, res):
                     done[i] = r
     else:
-        for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, progress))):
+        for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, record))):
             done[i] = r
-    rows = []
-    for res in done:
-        row = res.as_row()
-        row["dps"] = res.dps
-        row["message"] = res.message
-        rows.append(row)
-    return Spectrum(rows, done)
+    rows = [result_row(res, err, omega=w) for w, (res, err) in zip(ws, done)]
+    return Spectrum(rows, [res for res, _ in done])

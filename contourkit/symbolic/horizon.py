@@ -298,7 +298,7 @@ class HorizonModel:
         return extensions.call("scatter", self, omega, **kw)
 
     def spectrum(self, omegas, **kw):
-        """One row per frequency; see :func:`contourkit.scattering.spectra.spectrum`."""
+        """One row per frequency; see :func:`contourkit.scans.engine.spectrum`."""
         return extensions.call("spectrum", self, omegas, **kw)
 
     def __repr__(self):

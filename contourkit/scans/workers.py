@@ -1,0 +1,177 @@
+"""Worker processes that never outlive their parent, and Dask clusters reached in one step.
+
+Local workers
+-------------
+:func:`local_pool` gives a :class:`concurrent.futures.ProcessPoolExecutor`
+whose workers
+
+* ask the kernel for ``SIGKILL`` when their parent dies (Linux
+  ``prctl(PR_SET_PDEATHSIG)``), and
+* run a watchdog thread that ends the worker (``os._exit``) within a quarter
+  of a second once its parent process has changed (the parent died and the
+  worker was handed to another process), on every POSIX system;
+* ignore ``SIGINT``: an interrupt at the terminal reaches the whole process
+  group, and the parent alone decides (it keeps the rows written and ends
+  the workers with :func:`stop_pool`).
+
+Dask
+----
+:func:`dask_client` checks the address before Dask sees it: a malformed
+address or a TCP address where nothing answers (one ``socket`` connection
+attempt, at most 5 seconds) is refused with one line; only then is a
+``distributed.Client`` made, with Dask's own log messages silenced while it
+connects, so that nothing is printed after the error.
+
+References
+----------
+.. [1] Linux man-pages, prctl(2), PR_SET_PDEATHSIG.
+"""
+import logging
+import os
+import re
+import signal
+import socket
+import sys
+import threading
+import time
+from contextlib import contextmanager
+from urllib.parse import urlsplit
+
+from ..errors import InputError
+from .table import ScanError
+
+#: seconds between two checks of the parent process in a worker
+WATCH_INTERVAL = 0.25
+#: seconds allowed for the first connection to a Dask scheduler
+CONNECT_TIMEOUT = 5.0
+
+
+def _parent_death_signal():
+    if not sys.platform.startswith("linux"):
+        return
+    try:
+        import ctypes
+        libc = ctypes.CDLL(None, use_errno=True)
+        libc.prctl(1, int(signal.SIGKILL), 0, 0, 0)       # PR_SET_PDEATHSIG = 1
+    except (OSError, AttributeError):  # pragma: no cover - no prctl
+        pass
+
+
+def _watch(parent):
+    while True:
+        if os.getppid() != parent:
+            os._exit(1)
+        time.sleep(WATCH_INTERVAL)
+
+
+def worker_init():
+    """Initialiser of a worker process (see the module docstring)."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    _parent_death_signal()
+    parent = os.getppid()
+    if parent == 1:                      # pragma: no cover - parent already gone
+        os._exit(1)
+    threading.Thread(target=_watch, args=(parent,), name="contourkit-parent-watch", daemon=True).start()
+
+
+def local_pool(workers):
+    """A process pool of ``workers`` processes that end with their parent."""
+    from concurrent.futures import ProcessPoolExecutor
+    return ProcessPoolExecutor(max_workers=int(workers), initializer=worker_init)
+
+
+def stop_pool(pool):
+    """End a pool now: cancel what has not started, terminate the running workers."""
+    procs = list(getattr(pool, "_processes", {}).values())
+    pool.shutdown(wait=False, cancel_futures=True)
+    for p in procs:
+        try:
+            p.terminate()
+        except (OSError, AttributeError):  # pragma: no cover - already gone
+            pass
+    for p in procs:
+        try:
+            p.join(2)
+        except (OSError, AssertionError, AttributeError):  # pragma: no cover
+            pass
+
+
+def check_address(address):
+    """Refuse a malformed Dask address; return (scheme, host, port).
+
+    Parameters
+    ----------
+    address : str
+        ``tcp://host:port`` (``host:port`` means tcp), ``tls://host:port``
+        or ``inproc://...``.
+
+    Raises
+    ------
+    InputError
+    """
+    if not isinstance(address, str) or not address.strip():
+        raise InputError(f"the Dask scheduler address must be text like tcp://host:8786, got {address!r}")
+    text = address.strip()
+    if "://" not in text:
+        text = "tcp://" + text
+    parts = urlsplit(text)
+    if parts.scheme == "inproc":
+        return "inproc", None, None
+    if parts.scheme not in ("tcp", "tls"):
+        raise InputError(f"the Dask scheduler address {address!r} has the protocol {parts.scheme!r}; give "
+                         f"tcp://host:port or tls://host:port")
+    try:
+        port = parts.port
+    except ValueError:
+        port = None
+    host_ok = bool(parts.hostname) and re.fullmatch(r"[A-Za-z0-9._:-]+", parts.hostname) is not None
+    if not host_ok or port is None or not 0 < port < 65536 or parts.path not in ("", "/"):
+        raise InputError(f"the Dask scheduler address {address!r} is malformed; give it as tcp://host:port, "
+                         f"e.g. tcp://127.0.0.1:8786")
+    return parts.scheme, parts.hostname, port
+
+
+@contextmanager
+def _quiet_dask():
+    names = ("distributed", "distributed.client", "distributed.core", "distributed.comm", "tornado", "asyncio")
+    saved = {n: logging.getLogger(n).level for n in names}
+    for n in names:
+        logging.getLogger(n).setLevel(logging.CRITICAL + 1)
+    try:
+        yield
+    finally:
+        for n, level in saved.items():
+            logging.getLogger(n).setLevel(level)
+
+
+def dask_client(address):
+    """A ``distributed.Client`` for the scheduler at ``address``, or a one-line refusal.
+
+    Raises
+    ------
+    InputError
+        Malformed address, or dask.distributed not installed.
+    ScanError
+        Nothing answers at the address within :data:`CONNECT_TIMEOUT` seconds.
+    """
+    scheme, host, port = check_address(address)
+    try:
+        from distributed import Client
+    except ImportError:
+        raise InputError("a Dask scheduler needs dask.distributed: pip install \"contourkit[dask]\"") from None
+    if scheme in ("tcp", "tls"):
+        try:
+            socket.create_connection((host, port), timeout=CONNECT_TIMEOUT).close()
+        except OSError as exc:
+            reason = exc.strerror or type(exc).__name__
+            raise ScanError(f"cannot reach the Dask scheduler at {address} ({reason}); check that the "
+                            f"scheduler runs and that the address and port are right") from None
+    with _quiet_dask():
+        try:
+            return Client(address, timeout=CONNECT_TIMEOUT, set_as_default=False)
+        except (OSError, TimeoutError, ValueError) as exc:
+            reason = " ".join(str(exc).split()) or type(exc).__name__
+            raise ScanError(f"cannot connect to the Dask scheduler at {address}: {reason}") from None
+
+
+__all__ = ["local_pool", "stop_pool", "worker_init", "check_address", "dask_client"]
