@@ -9,14 +9,20 @@ contour method against the direct full-profile solver).  Run
 Errors in the input (a missing or malformed model file, a bad option, an
 unwritable output path, ...) end the command with exit code 2 (usage) or 1
 (everything else) and one line on stderr, ``contourkit: error: ...``; with
-``--debug`` the traceback is shown instead.
+``--debug`` the traceback is shown instead.  An error that contourkit did not
+foresee is reported in the same single line (with its type, and the advice to
+rerun with ``--debug``), never as a Python traceback.
+
+The subcommands are declared in one table (:mod:`contourkit.cli.registry`);
+:mod:`contourkit.cli.commands` declares the four above.
 """
 import sys
 import warnings
 
 from ..errors import ContourkitError
-from .commands import COMMANDS, CommandFailed
+from .commands import CommandFailed
 from .parser import build_parser
+from .registry import COMMANDS
 from .source import UsageError
 
 __all__ = ["main", "build_parser"]
@@ -58,7 +64,7 @@ def main(argv=None):
             args = parser.parse_args(argv)
             if args.command is None:
                 raise UsageError(f"give a command: {', '.join(COMMANDS)} (see 'contourkit --help')")
-            code = COMMANDS[args.command](args)
+            code = COMMANDS[args.command].run(args)
         except UsageError as exc:
             return _fail(_one_line(exc), 2)
         except KeyboardInterrupt:
@@ -72,6 +78,11 @@ def main(argv=None):
             if debug:
                 raise
             return _fail(_one_line(exc), 1)
+        except Exception as exc:            # not foreseen: still one line, the traceback with --debug
+            if debug:
+                raise
+            return _fail(f"unexpected {type(exc).__name__}: {_one_line(exc)} (run again with --debug for the "
+                         f"traceback, and please report it)", 1)
     for text in dict.fromkeys(f"{w.category.__name__}: {w.message}" for w in caught):
         print(f"contourkit: warning: {' '.join(text.split())}", file=sys.stderr)
     return code

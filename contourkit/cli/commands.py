@@ -1,9 +1,20 @@
-"""The four commands of the ``contourkit`` command line: derive, spectrum, figures, check."""
+"""The commands of the ``contourkit`` command line: derive, spectrum, figures, check.
+
+Each command is declared once, with :func:`contourkit.cli.registry.command`,
+beside the function that runs it and the function that adds its options.
+"""
+import argparse
 import os
 import pathlib
 
 from ..errors import InputError
+from .parser import parallel_options, positive_float, positive_int, range_options, finite_float, tolerance
+from .registry import COMMANDS, command
 from .source import UsageError, check_frequencies, load, require_horizon
+
+
+#: largest |x| of a figure position (beyond it the profile's functions overflow in double precision)
+MAX_POSITION = 1e12
 
 
 class CommandFailed(Exception):
@@ -46,6 +57,16 @@ def omega_range(model, args):
     return check_frequencies(model, omega_grid(lo, hi, points=args.points, log=args.log))
 
 
+def _derive_options(p):
+    p.add_argument("--omega", type=positive_float, metavar="W",
+                   help="frequency of the near-horizon equation (default: omega = kappa)")
+    p.add_argument("--latex", action="store_true", help="print LaTeX (an align* block) instead of text")
+
+
+@command("derive", help="print the derived k-space equation and constants", options=_derive_options,
+         description="Print the dispersion relation, horizon, kappa, T_H and cut-off of a model and, at one "
+                     "frequency, the near-horizon ODE, its k-space equation, the closed-form exponent, the "
+                     "branch points with their exponents and the valleys at infinity.")
 def run_derive(args):
     """``contourkit derive``: print the derivation (text or LaTeX)."""
     from .derive import report
@@ -55,39 +76,84 @@ def run_derive(args):
 
 
 def _print_rows(rows, T_H):
-    print(f"{'omega':>12} {'omega/T_H':>10} {'|beta|^2':>12} {'|beta/alpha|^2':>15} {'T_eff/T_H':>10} "
-          f"{'unitarity':>10}  ok")
+    # the column names of docs/vocabulary.md
+    print(f"{'omega':>12} {'omega/T_H':>10} {'occupation':>12} {'thermal_ratio':>15} {'temperature_ratio':>17} "
+          f"{'unitarity_residual':>18}  success")
     for r in rows:
         w = r["omega"]
         print(f"{w:12.6g} {w / T_H:10.4f} {_fmt(r['occupation'], '12.5e')} {_fmt(r['thermal_ratio'], '15.6e')} "
-              f"{_fmt(r['temperature_ratio'], '10.6f')} {_fmt(r['unitarity_residual'], '10.1e')}  "
+              f"{_fmt(r['temperature_ratio'], '17.6f')} {_fmt(r['unitarity_residual'], '18.1e')}  "
               f"{'yes' if r['success'] else 'NO: ' + (r['message'] or '')}")
 
 
 def _parallel(args):
     if args.scheduler is not None and args.workers is not None:
         raise UsageError("--workers and --scheduler exclude each other (a Dask cluster has its own workers)")
-    return {"workers": args.workers, "scheduler": args.scheduler}
+    if args.scheduler is not None:
+        from ..scans.workers import check_address
+        check_address(args.scheduler)
+        return {"workers": None, "scheduler": args.scheduler}
+    if args.workers is None:
+        from ..scans.resumable import default_workers
+        return {"workers": default_workers(), "scheduler": None}
+    return {"workers": args.workers, "scheduler": None}
 
 
+def _spectrum_options(p):
+    range_options(p, points=12)
+    p.add_argument("--method", choices=("contour", "direct"), default="contour",
+                   help="contour: near-horizon S-matrix, geometry followed in omega (default); direct: the "
+                        "full-profile solver")
+    p.add_argument("--out", metavar="FILE.csv", help="the table (written row by row; resumed if it exists)")
+    p.add_argument("--restart", action="store_true",
+                   help="start --out afresh instead of resuming it (its rows are dropped)")
+    p.add_argument("--json", metavar="FILE.json", help="also write the finished table as JSON")
+    parallel_options(p)
+    p.add_argument("--rtol", type=tolerance, metavar="R",
+                   help="relative accuracy of thermal_ratio and occupation (contour default 1e-12, direct 1e-10)")
+    p.add_argument("--digits", type=positive_int, metavar="N",
+                   help="contour method: correct significant digits of each S-matrix (overrides --rtol)")
+    p.add_argument("--on-error", choices=("raise", "record", "stop"), default="raise",
+                   help="a failing frequency stops the run (raise, the default; 'stop' is the same) or is "
+                        "recorded as a failed row (record)")
+    p.add_argument("--progress", action=argparse.BooleanOptionalAction, default=None,
+                   help="progress bar on stderr: rows done, resumed, failed, time left (default: when stderr "
+                        "is a terminal and --quiet is not given)")
+    p.add_argument("--quiet", action="store_true", help="print neither the table nor the progress bar")
+
+
+@command("spectrum", help="Hawking spectrum over a frequency range, to CSV", options=_spectrum_options,
+         description="Compute occupation |beta|^2, thermal_ratio |beta/alpha|^2, temperature_ratio T_eff/T_H and "
+                     "the unitarity residual on a frequency grid, with the engine of model.spectrum.  Rows are "
+                     "written to --out as they finish, after a fingerprint line of the run; running the same "
+                     "command again resumes an interrupted run, and a file of another run is refused (--restart "
+                     "starts it afresh).")
 def run_spectrum(args):
-    """``contourkit spectrum``: a resumable scan to CSV (and JSON)."""
-    from ..scans.resumable import scan, write_json
+    """``contourkit spectrum``: the spectrum engine to CSV (and JSON)."""
+    from ..scans.engine import spectrum
+    from ..scans.resumable import write_json
     model, label = load(args)
     require_horizon(model, label, "spectrum")
     parallel = _parallel(args)
+    if args.digits is not None and args.method == "direct":
+        raise UsageError("--digits is an option of the contour method; give --rtol for the direct solver")
+    if args.restart and args.out is None:
+        raise UsageError("--restart starts the file of --out afresh; give --out FILE.csv")
     if args.out is not None:
         _writable(args.out, "the table")
     if args.json is not None:
         _writable(args.json, "the JSON file")
     ws = omega_range(model, args)
-    res = scan(model, ws, out=args.out, progress=args.progress, dps=args.digits, on_error=args.on_error,
-               **parallel)
+    progress = args.progress if args.progress is not None else (False if args.quiet else None)
+    res = spectrum(model, ws, method=args.method, out=args.out, restart=args.restart, progress=progress,
+                   rtol=args.rtol, dps=args.digits, on_error="record" if args.on_error == "record" else "raise",
+                   **parallel)
     if args.json is not None:
         write_json(res, args.json, metadata={"source": label, "name": model.name, "kappa": model.kappa,
                                              "hawking_temperature": model.hawking_temperature})
     if not args.quiet:
-        print(f"# {model.name or label}: kappa = {model.kappa:.6g}, T_H = {model.hawking_temperature:.6g}")
+        print(f"# {model.name or label}: kappa = {model.kappa:.6g}, T_H = {model.hawking_temperature:.6g}, "
+              f"method = {args.method}")
         _print_rows(res.rows, model.hawking_temperature)
     where = f" in {args.out}" if args.out else ""
     failed = sum(not r["success"] for r in res.rows)
@@ -116,6 +182,22 @@ def _save(plotting, fig, stem, formats):
     return [f"{stem}.{f}" for f in formats]
 
 
+def _figures_options(p):
+    p.add_argument("--omega", type=positive_float, metavar="W",
+                   help="frequency of the landscape and dispersion figures (default: omega = kappa)")
+    p.add_argument("--x", type=finite_float, nargs="+", metavar="X",
+                   help="position(s) of the landscape figures (default: x = -1/kappa and 1/kappa)")
+    p.add_argument("--out-dir", default="figures", metavar="DIR", help="where the figures go (default: figures)")
+    p.add_argument("--formats", default="png", metavar="LIST", help="comma-separated, e.g. png,pdf (default png)")
+    p.add_argument("--table", metavar="FILE.csv",
+                   help="draw the spectrum from this table (from 'contourkit spectrum') instead of computing it")
+    range_options(p, points=6)
+    parallel_options(p)
+
+
+@command("figures", help="complex-plane landscape, dispersion and spectrum figures", options=_figures_options,
+         description="Draw the complex-k landscape of the near-horizon integrand at each --x, the dispersion "
+                     "diagram and the spectrum, into --out-dir.")
 def run_figures(args):
     """``contourkit figures``: landscapes, dispersion diagrams and spectrum into --out-dir.
 
@@ -126,7 +208,8 @@ def run_figures(args):
     matplotlib.use("Agg")
     from .. import plotting
     from ..symbolic.horizon import HorizonModel
-    from ..scans.resumable import read_table, scan
+    from ..scans.engine import spectrum
+    from ..scans.table import read_table
     model, label = load(args)
     formats = _formats(args.formats)
     parallel = _parallel(args)
@@ -145,6 +228,10 @@ def run_figures(args):
     else:
         omega, eq = None, model
         xs = args.x if args.x is not None else [-2.0, 2.0]
+    far = [x for x in xs if abs(x) > MAX_POSITION]
+    if far:
+        raise InputError(f"--x {far[0]:g} is too far from the horizon for a figure: give positions with "
+                         f"|x| <= {MAX_POSITION:g} (near-horizon coordinates, horizon at x = 0)")
     rep = eq.fourier()
     written = []
     for x in xs:
@@ -155,7 +242,7 @@ def run_figures(args):
             fig, _ = plotting.dispersion(model, x=model.horizon + x, omega=omega)
             written += _save(plotting, fig, out_dir / f"dispersion_x{x:+g}", formats)
         rows = (read_table(args.table) if args.table is not None else
-                scan(model, omega_range(model, args), progress=False, on_error="record", **parallel).rows)
+                spectrum(model, omega_range(model, args), progress=False, on_error="record", **parallel).rows)
         rows = [r for r in rows if r["success"]]
         if not rows:
             raise CommandFailed("no frequency of the spectrum succeeded; nothing to draw")
@@ -166,6 +253,16 @@ def run_figures(args):
     return 0
 
 
+def _check_options(p):
+    p.add_argument("--omega", type=positive_float, nargs="+", required=True, metavar="W",
+                   help="frequencies to compare")
+    p.add_argument("--out", metavar="FILE.csv", help="also write the comparison table as CSV")
+
+
+@command("check", help="near-horizon result versus the direct full-profile solver", options=_check_options,
+         description="Compare the near-horizon contour S-matrix with the direct position-space solver of the "
+                     "full profile, one row per frequency.  The model needs uniform asymptotic regions (e.g. a "
+                     "tanh profile).")
 def run_check(args):
     """``contourkit check``: near-horizon contour method against the direct solver."""
     from ..profiles.comparison import compare
@@ -198,4 +295,4 @@ def run_check(args):
     return 0
 
 
-COMMANDS = {"derive": run_derive, "spectrum": run_spectrum, "figures": run_figures, "check": run_check}
+__all__ = ["COMMANDS", "CommandFailed", "omega_range"]

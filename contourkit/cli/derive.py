@@ -48,7 +48,7 @@ def _text_value(v):
     if isinstance(v, list):
         if not v:
             return "none"
-        return "; ".join(f"{a}: {b}" for a, b in v)
+        return "; ".join(f"{e[0]}: {e[1]}" if isinstance(e, tuple) and len(e) == 2 else str(e) for e in v)
     if isinstance(v, float):
         return f"{v:.10g}"
     if isinstance(v, sp.Eq):
@@ -77,7 +77,8 @@ def _latex_line(label, v):
         if label.startswith("valleys"):
             return f"% {label}: " + "; ".join(f"{a}, {b}" for a, b in v)
         sym = r"\nu" if label.startswith("branch") else "n"
-        parts = [f"k_{{{i}}} = {sp.latex(a)},\\ {sym}_{{{i}}} = {sp.latex(b)}" for i, (a, b) in enumerate(v, 1)]
+        parts = [f"k_{{{i}}} = {sp.latex(e[0])},\\ {sym}_{{{i}}} = {sp.latex(e[1])}"
+                 if isinstance(e, tuple) and len(e) == 2 else f"k_{{{i}}} = {sp.latex(e)}" for i, e in enumerate(v, 1)]
         return f"% {label}\n" + " \\\\\n".join(f"& {p}" for p in parts) + " \\\\"
     name = _LATEX_NAMES.get(label, r"\text{" + label + "}")
     value = r"\text{none}" if v is None else sp.latex(sp.Float(v, 10) if isinstance(v, float) else v)

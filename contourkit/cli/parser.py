@@ -16,6 +16,7 @@ EPILOG = """\
 examples:
   contourkit derive --example quartic_superluminal --latex
   contourkit spectrum MODEL.toml --omega-min 0.004 --omega-max 0.06 --points 12 --out spectrum.csv
+  contourkit spectrum --example quartic_superluminal --points 100 --workers 2 --out s.csv --restart
   contourkit figures MODEL.toml --omega 0.02 --x -20 20 --out-dir figures
   contourkit check --example quartic_superluminal --omega 0.01 0.03
 Run 'contourkit COMMAND --help' for the options of each command.
@@ -52,6 +53,14 @@ def finite_float(text):
     return _number(text, "must be a finite number")
 
 
+def tolerance(text):
+    """A relative tolerance: a number strictly between 0 and 1."""
+    v = _number(text, "must be a number between 0 and 1, e.g. 1e-10")
+    if not 0 < v < 1:
+        raise argparse.ArgumentTypeError(f"must be a number between 0 and 1 (exclusive), e.g. 1e-10, got {text!r}")
+    return v
+
+
 def positive_int(text):
     """An integer >= 1."""
     try:
@@ -63,7 +72,7 @@ def positive_int(text):
     return v
 
 
-def _common():
+def common_options():
     p = Parser(add_help=False)
     g = p.add_argument_group("model (give one)")
     g.add_argument("model", nargs="?", metavar="MODEL.toml", help="a model file (docs/model-files.md)")
@@ -78,7 +87,7 @@ def _common():
     return p
 
 
-def _range_options(p, *, points):
+def range_options(p, *, points):
     p.add_argument("--omega-min", type=positive_float, metavar="A",
                    help="lowest frequency (default: T_H/2)")
     p.add_argument("--omega-max", type=positive_float, metavar="B",
@@ -88,71 +97,31 @@ def _range_options(p, *, points):
     p.add_argument("--log", action="store_true", help="geometric spacing of the frequencies")
 
 
-def _parallel_options(p):
+def parallel_options(p):
     p.add_argument("--workers", type=positive_int, metavar="N",
-                   help="local worker processes (default: all cores)")
+                   help="local worker processes (default: all cores); they end with this command")
     p.add_argument("--scheduler", metavar="ADDRESS",
                    help="run on an existing Dask cluster, e.g. tcp://host:8786 (needs contourkit[dask])")
 
 
 def build_parser():
-    """The parser with its four commands: derive, spectrum, figures, check.
+    """The parser with every subcommand of :data:`contourkit.cli.registry.COMMANDS`.
 
     Returns
     -------
     Parser
     """
-    common = _common()
+    from .registry import COMMANDS
+    common = common_options()
     top = Parser(prog="contourkit", description=DESCRIPTION, epilog=EPILOG,
                  formatter_class=argparse.RawDescriptionHelpFormatter)
     from .._version import __version__
     top.add_argument("--version", action="version", version=f"contourkit {__version__}")
     sub = top.add_subparsers(dest="command", metavar="COMMAND", parser_class=Parser)
-
-    p = sub.add_parser("derive", parents=[common], help="print the derived k-space equation and constants",
-                       description="Print the dispersion relation, horizon, kappa, T_H and cut-off of a model "
-                                   "and, at one frequency, the near-horizon ODE, its k-space equation, the "
-                                   "closed-form exponent, the branch points with their exponents and the "
-                                   "valleys at infinity.")
-    p.add_argument("--omega", type=positive_float, metavar="W",
-                   help="frequency of the near-horizon equation (default: omega = kappa)")
-    p.add_argument("--latex", action="store_true", help="print LaTeX (an align* block) instead of text")
-
-    p = sub.add_parser("spectrum", parents=[common], help="Hawking spectrum over a frequency range, to CSV",
-                       description="Compute |beta|^2, |beta/alpha|^2, T_eff/T_H and the pseudo-unitarity "
-                                   "residual on a frequency grid.  Rows are written to --out as they finish; "
-                                   "running the same command again resumes an interrupted scan.")
-    _range_options(p, points=12)
-    p.add_argument("--out", metavar="FILE.csv", help="the table (written row by row; resumed if it exists)")
-    p.add_argument("--json", metavar="FILE.json", help="also write the finished table as JSON")
-    _parallel_options(p)
-    p.add_argument("--digits", type=positive_int, metavar="N",
-                   help="correct significant digits of each S-matrix (default 16)")
-    p.add_argument("--on-error", choices=("stop", "record"), default="stop",
-                   help="a failing frequency stops the scan (default) or is recorded as a failed row")
-    p.add_argument("--progress", action=argparse.BooleanOptionalAction, default=None,
-                   help="progress bar on stderr (default: when stderr is a terminal; needs tqdm)")
-    p.add_argument("--quiet", action="store_true", help="do not print the table")
-
-    p = sub.add_parser("figures", parents=[common], help="complex-plane landscape, dispersion and spectrum figures",
-                       description="Draw the complex-k landscape of the near-horizon integrand at each --x, "
-                                   "the dispersion diagram and the spectrum, into --out-dir.")
-    p.add_argument("--omega", type=positive_float, metavar="W",
-                   help="frequency of the landscape and dispersion figures (default: omega = kappa)")
-    p.add_argument("--x", type=finite_float, nargs="+", metavar="X",
-                   help="position(s) of the landscape figures (default: x = -1/kappa and 1/kappa)")
-    p.add_argument("--out-dir", default="figures", metavar="DIR", help="where the figures go (default: figures)")
-    p.add_argument("--formats", default="png", metavar="LIST", help="comma-separated, e.g. png,pdf (default png)")
-    p.add_argument("--table", metavar="FILE.csv",
-                   help="draw the spectrum from this table (from 'contourkit spectrum') instead of computing it")
-    _range_options(p, points=6)
-    _parallel_options(p)
-
-    p = sub.add_parser("check", parents=[common], help="near-horizon result versus the direct full-profile solver",
-                       description="Compare the near-horizon contour S-matrix with the direct position-space "
-                                   "solver of the full profile, one row per frequency.  The model needs "
-                                   "uniform asymptotic regions (e.g. a tanh profile).")
-    p.add_argument("--omega", type=positive_float, nargs="+", required=True, metavar="W",
-                   help="frequencies to compare")
-    p.add_argument("--out", metavar="FILE.csv", help="also write the comparison table as CSV")
+    for cmd in COMMANDS.values():
+        p = sub.add_parser(cmd.name, parents=[common] if cmd.model else [], help=cmd.help,
+                           description=cmd.description)
+        if not cmd.model:
+            p.add_argument("--debug", action="store_true", help="show the full traceback of any error")
+        cmd.options(p)
     return top

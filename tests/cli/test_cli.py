@@ -65,13 +65,16 @@ def test_spectrum_table_and_json(tmp_path):
     proc = run("spectrum", NONDISP, "--omega-min", "0.01", "--omega-max", "0.04", "--points", "3", "--log",
                "--out", out, "--json", js, "--workers", "1")
     assert proc.returncode == 0, proc.stderr
-    rows = list(csv.DictReader(out.open()))
+    lines = out.read_text().splitlines()
+    assert lines[0].startswith("# contourkit run {")          # the run fingerprint (docs/vocabulary.md)
+    rows = list(csv.DictReader(lines[1:]))
     assert [float(r["omega"]) for r in rows] == pytest.approx([0.01, 0.02, 0.04])
     for r in rows:   # exact thermal factor (Unruh 1981)
         assert float(r["thermal_ratio"]) == pytest.approx(math.exp(-2 * math.pi * float(r["omega"]) / 0.05),
                                                           rel=1e-12)
     doc = json.loads(js.read_text())
     assert doc["model"]["kappa"] == 0.05 and len(doc["rows"]) == 3
+    assert doc["fingerprint"] == json.loads(lines[0][len("# contourkit run "):])
     assert doc["rows"][1]["omega"] == float(rows[1]["omega"])
     assert "3 rows" in proc.stdout
 
