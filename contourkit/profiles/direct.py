@@ -65,6 +65,7 @@ import weakref
 
 import numpy as np
 import scipy.sparse as sps
+from threadpoolctl import threadpool_limits
 import scipy.sparse.linalg as spla
 import sympy as sp
 
@@ -76,6 +77,9 @@ from .planewaves import (OMEGA, X, asymptotic_dispersion, default_window, deviat
 from ..scattering.results import ScatteringResult, pseudo_unitarity_residual
 from ..symbolic.symmetric import from_symmetric
 
+#: BLAS threads of the dense solves: the matrices are small (at most a few hundred rows), for which
+#: one thread is fastest, and a thread per core slows down badly when other programs run (common practice)
+BLAS_THREADS = 1
 #: relative distance from a cut-off inside which scatter() refuses to work
 CUTOFF_GUARD = 1e-9
 
@@ -362,14 +366,15 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         return _solve(_transfer(coeffs, w, nodes, N, K), EL, ER, fixed_zero, in_idx)[out_idx, :]
 
     N = points
-    prev = solve(N)
-    while True:
-        N += 8
-        S = solve(N)
-        err = float(np.max(np.abs(S - prev)))
-        if err <= rtol or N + 8 > max_points:
-            break
-        prev = S
+    with threadpool_limits(limits=BLAS_THREADS, user_api="blas"):     # restored on leaving
+        prev = solve(N)
+        while True:
+            N += 8
+            S = solve(N)
+            err = float(np.max(np.abs(S - prev)))
+            if err <= rtol or N + 8 > max_points:
+                break
+            prev = S
     in_modes = [ends[j] for j in in_idx]
     out_modes = [ends[j] for j in out_idx]
     eta_in = [md.norm for md in in_modes]

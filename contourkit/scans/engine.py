@@ -338,12 +338,15 @@ def _execute(tasks, put, skip, seen, *, workers, scheduler):
     if workers is None or workers <= 1 or len(tasks) == 1:
         for b, task in enumerate(tasks):
             first = skip if b == 0 else 0
-            live = {}
+            held, nxt = {}, [0]
 
-            def on_row(i, row, res, first=first):
-                if i >= first:
-                    live[i] = True
-                    put(row, res)
+            def on_row(i, row, res, first=first, held=held, nxt=nxt):
+                held[i] = (row, res)              # rows finish in omega order; they are written in grid order
+                while nxt[0] in held:
+                    r, x = held.pop(nxt[0])
+                    if nxt[0] >= first:
+                        put(r, x)
+                    nxt[0] += 1
             out = run_block(*task, on_row=on_row)
             seen.extend(out[2])
             if out[3] is not None:

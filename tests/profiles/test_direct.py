@@ -171,3 +171,28 @@ def test_bad_options(sup):
         scatter(sup, 0.05, window=(5.0, -5.0))
     with pytest.raises(errors.InputError, match="max_points"):
         scatter(sup, 0.05, points=16, max_points=20)
+
+
+def test_blas_threads_bounded_during_the_solve_only(sup, monkeypatch):
+    # the dense solves run with BLAS_THREADS threads and the setting is restored afterwards
+    # (threadpoolctl reads the BLAS library's own count; common practice)
+    from threadpoolctl import threadpool_info, threadpool_limits
+    from contourkit.profiles import direct
+
+    def blas():
+        return [d["num_threads"] for d in threadpool_info() if d["user_api"] == "blas"]
+    seen = []
+    real = direct._transfer
+
+    def spy(*a, **kw):
+        seen.append(blas())
+        return real(*a, **kw)
+    monkeypatch.setattr(direct, "_transfer", spy)
+    with threadpool_limits(limits=2, user_api="blas"):        # a known count that differs from BLAS_THREADS
+        before = blas()
+        res = direct.scatter(sup, 0.05)
+        after = blas()
+    assert before and all(n == 2 for n in before)
+    assert res.unitarity_residual < 1e-8                       # pseudo-unitarity still holds
+    assert seen and all(n == [direct.BLAS_THREADS] * len(before) for n in seen)
+    assert after == before

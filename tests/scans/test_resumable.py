@@ -62,10 +62,10 @@ def test_file_resume_drops_partial_line(tmp_path, nondisp):
     ws = [0.01, 0.015, 0.02, 0.03]
     ref = tmp_path / "ref.csv"
     scan(nondisp, ws, out=ref, workers=1)
-    # an interrupted run: header, two rows, and a line cut short
+    # an interrupted run: fingerprint, header, two rows, and a line cut short
     lines = ref.read_bytes().splitlines(keepends=True)
     cut = tmp_path / "cut.csv"
-    cut.write_bytes(b"".join(lines[:3]) + lines[3][:17])
+    cut.write_bytes(b"".join(lines[:4]) + lines[4][:17])
     res = scan(nondisp, ws, out=cut, workers=1)
     assert (res.resumed, res.computed) == (2, 2)
     assert cut.read_bytes() == ref.read_bytes()
@@ -105,6 +105,10 @@ def test_record_errors_keeps_going(tmp_path):
     res = scan(_Refuses(), [0.1, 0.2], out=tmp_path / "t.csv", workers=1, on_error="record")
     assert [r["success"] for r in read_table(tmp_path / "t.csv")] == [False, False] and res.computed == 2
     with pytest.raises(ck.ScatteringError):
+        scan(_Refuses(), [0.1, 0.2], out=tmp_path / "u.csv", workers=1)
+    assert read_table(tmp_path / "u.csv") == []
+    # another grid into the same file is refused (it used to be appended)
+    with pytest.raises(ScanError, match="frequency grid differs"):
         scan(_Refuses(), [0.3], out=tmp_path / "t.csv", workers=1)
     assert len(read_table(tmp_path / "t.csv")) == 2
 
@@ -122,7 +126,7 @@ def test_kill_and_resume(tmp_path):
     try:
         deadline = time.monotonic() + 120
         while time.monotonic() < deadline and proc.poll() is None:
-            if out.exists() and out.read_bytes().count(b"\n") >= 3:     # header + 2 rows
+            if out.exists() and out.read_bytes().count(b"\n") >= 4:     # fingerprint, header + 2 rows
                 break
             time.sleep(0.05)
         assert proc.poll() is None, "the scan finished before it could be killed"
@@ -131,7 +135,7 @@ def test_kill_and_resume(tmp_path):
     finally:
         if proc.poll() is None:
             proc.kill()
-    partial = out.read_bytes().count(b"\n") - 1
+    partial = out.read_bytes().count(b"\n") - 2
     assert 2 <= partial < 6
     again = subprocess.run(_cli(*args, "--out", out, "--workers", "1"), env=_env(), capture_output=True,
                            text=True, timeout=240)
