@@ -58,7 +58,12 @@ class ComparisonTable(RowTable):
         self.results = list(results or [])
 
     def __repr__(self):
-        return f"ComparisonTable({self.model_name or 'model'}, {len(self.rows)} rows)"
+        from ..scattering.display import rows_repr
+        return rows_repr("ComparisonTable", self.rows, self._fields(), f", {self.model_name or 'model'}")
+
+    def _repr_html_(self):
+        from ..scattering.display import rows_html
+        return rows_html(f"ComparisonTable ({self.model_name or 'model'})", self.rows, self._fields())
 
 
 def _rel(a, b):

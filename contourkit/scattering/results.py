@@ -83,6 +83,8 @@ class ScatteringResult:
         ``|beta|^2``: the mean number of quanta in the Hawking out-mode.
     effective_temperature : float
         ``omega / ln(|alpha|^2/|beta|^2)``.
+    temperature_ratio : float (property)
+        ``effective_temperature / hawking_temperature``.
     hawking_temperature : float
         ``kappa/(2 pi)``.
     kappa : float
@@ -120,6 +122,20 @@ class ScatteringResult:
     def modes(self):
         """All in and out modes."""
         return list(self.in_modes) + list(self.out_modes)
+
+    @property
+    def temperature_ratio(self):
+        """``T_eff / T_H`` (None where T_eff is missing); the column of the same name in tables."""
+        from .display import temperature_ratio
+        return temperature_ratio(self)
+
+    def __repr__(self):
+        from .display import result_repr
+        return result_repr(self)
+
+    def _repr_html_(self):
+        from .display import result_html
+        return result_html(self)
 
     def as_row(self):
         """A flat dict for tables (CSV/JSON)."""

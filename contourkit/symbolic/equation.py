@@ -259,4 +259,13 @@ class ModeEquation:
         return KSpaceRepresentation(self, cut_angle=cut_angle)
 
     def __repr__(self):
-        return f"ModeEquation(order={self.order}, A={self.A}, B={self.B})"
+        from . import display
+        return display.equation_repr(self)
+
+    def _repr_html_(self):
+        from . import display
+        return display.equation_html(self)
+
+    def _repr_latex_(self):
+        from . import display
+        return display.equation_latex(self)

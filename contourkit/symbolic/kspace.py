@@ -316,8 +316,16 @@ class KSpaceRepresentation:
         return self._mp_cache[dps]
 
     def __repr__(self):
-        return (f"KSpaceRepresentation(E={self.exponent}, branch_points={self.branch_points}, "
-                f"valleys={len(self.valleys)})")
+        from . import display
+        return display.kspace_repr(self)
+
+    def _repr_html_(self):
+        from . import display
+        return display.kspace_html(self)
+
+    def _repr_latex_(self):
+        from . import display
+        return display.kspace_latex(self)
 
     # -- engine entry points (functional core in saddles/paths/quadrature)
     def saddles(self, x, *, dps=None):
