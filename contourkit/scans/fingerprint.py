@@ -111,8 +111,8 @@ def fingerprint(model, omegas, *, method, options):
     """
     fp = {"model": model_part(model), "grid": grid_part(omegas), "method": str(method),
           "options": json.loads(json.dumps(options, sort_keys=True)), "version": __version__}
-    fp["hash"] = _hash(json.dumps({k: fp[k] for k in ("model", "grid", "method", "options", "version")},
-                                  sort_keys=True))
+    fp["hash"] = _hash(json.dumps({"model": fp["model"]["hash"], "grid": fp["grid"]["hash"], "method": fp["method"],
+                                   "options": fp["options"], "version": fp["version"]}, sort_keys=True))
     return fp
 
 
