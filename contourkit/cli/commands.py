@@ -273,14 +273,17 @@ def run_check(args):
     ws = check_frequencies(model, list(args.omega))
     table = compare(model, ws, on_error="record")
     print(f"# {model.name or label}: kappa = {model.kappa:.6g}, T_H = {model.hawking_temperature:.6g}")
-    print(f"{'omega':>12} {'omega/kappa':>11} {'T_eff/T_H':>10} {'T_eff/T_H':>10} {'rel. diff':>10} "
-          f"{'unitarity':>10} {'unitarity':>10}")
-    print(f"{'':>12} {'':>11} {'contour':>10} {'direct':>10} {'|b/a|^2':>10} {'contour':>10} {'direct':>10}")
+    # the column names of docs/vocabulary.md, per method
+    print(f"{'omega':>12} {'omega_over':>11} {'temperature':>12} {'temperature':>12} {'rel_diff':>14} "
+          f"{'unitarity':>12} {'unitarity':>12}")
+    print(f"{'':>12} {'_kappa':>11} {'_ratio':>12} {'_ratio':>12} {'_thermal_ratio':>14} {'_residual':>12} "
+          f"{'_residual':>12}")
+    print(f"{'':>12} {'':>11} {'contour':>12} {'direct':>12} {'':>14} {'contour':>12} {'direct':>12}")
     notes = []
     for r in table.rows:
-        print(f"{r['omega']:12.6g} {r['omega_over_kappa']:11.4f} {_fmt(r['temperature_ratio_contour'], '10.6f')} "
-              f"{_fmt(r['temperature_ratio_direct'], '10.6f')} {_fmt(r['rel_diff_thermal_ratio'], '10.2e')} "
-              f"{_fmt(r['unitarity_residual_contour'], '10.1e')} {_fmt(r['unitarity_residual_direct'], '10.1e')}")
+        print(f"{r['omega']:12.6g} {r['omega_over_kappa']:11.4f} {_fmt(r['temperature_ratio_contour'], '12.6f')} "
+              f"{_fmt(r['temperature_ratio_direct'], '12.6f')} {_fmt(r['rel_diff_thermal_ratio'], '14.2e')} "
+              f"{_fmt(r['unitarity_residual_contour'], '12.1e')} {_fmt(r['unitarity_residual_direct'], '12.1e')}")
         for m in ("contour", "direct"):
             if not r[f"success_{m}"]:
                 notes.append(f"omega = {r['omega']:.6g}, {m}: {r[f'message_{m}']}")
