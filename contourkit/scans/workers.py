@@ -18,7 +18,7 @@ Dask
 ----
 :func:`dask_client` checks the address before Dask sees it: a malformed
 address or a TCP address where nothing answers (one ``socket`` connection
-attempt, at most 5 seconds) is refused with one line; only then is a
+attempt, then a question to the scheduler, each at most 3 seconds) is refused with one line; only then is a
 ``distributed.Client`` made, with Dask's own log messages silenced while it
 connects, so that nothing is printed after the error.
 
@@ -43,7 +43,7 @@ from .table import ScanError
 #: seconds between two checks of the parent process in a worker
 WATCH_INTERVAL = 0.25
 #: seconds allowed for the first connection to a Dask scheduler
-CONNECT_TIMEOUT = 5.0
+CONNECT_TIMEOUT = 3.0
 
 
 def _parent_death_signal():
@@ -166,12 +166,52 @@ def dask_client(address):
             reason = exc.strerror or type(exc).__name__
             raise ScanError(f"cannot reach the Dask scheduler at {address} ({reason}); check that the "
                             f"scheduler runs and that the address and port are right") from None
+    _probe(address)
     with _quiet_dask():
         try:
             return Client(address, timeout=CONNECT_TIMEOUT, set_as_default=False)
         except (OSError, TimeoutError, ValueError) as exc:
             reason = " ".join(str(exc).split()) or type(exc).__name__
             raise ScanError(f"cannot connect to the Dask scheduler at {address}: {reason}") from None
+
+
+def _probe(address):
+    """Ask the scheduler who it is, within CONNECT_TIMEOUT seconds, before a Client is made.
+
+    A half-made ``distributed.Client`` prints tracebacks from its destructor
+    long after the error; the probe uses Dask's comm layer in a thread of its
+    own (so that it also works where an event loop is already running, as in
+    a notebook) and gives up at the deadline.
+    """
+    import asyncio
+    outcome = {}
+
+    async def ask():
+        from distributed.comm import connect
+        comm = await asyncio.wait_for(connect(address, timeout=CONNECT_TIMEOUT), CONNECT_TIMEOUT + 1)
+        try:
+            await comm.write({"op": "identity", "reply": True})
+            outcome["identity"] = await asyncio.wait_for(comm.read(), CONNECT_TIMEOUT)
+        finally:
+            comm.abort()
+
+    def run():
+        try:
+            with _quiet_dask():
+                asyncio.run(ask())
+        except BaseException as exc:  # noqa: BLE001 - reported below in one line
+            outcome["error"] = exc
+
+    t = threading.Thread(target=run, name="contourkit-dask-probe", daemon=True)
+    t.start()
+    t.join(2 * CONNECT_TIMEOUT + 1)
+    ident = outcome.get("identity")
+    if t.is_alive() or "error" in outcome or not isinstance(ident, dict) or ident.get("type") != "Scheduler":
+        exc = outcome.get("error")
+        reason = (" ".join(str(exc).split()) or type(exc).__name__) if exc is not None else \
+            ("no answer" if ident is None else "the answer is not a Dask scheduler's")
+        raise ScanError(f"no Dask scheduler answers at {address} ({reason[:160]}); check that the scheduler runs "
+                        f"and that the address and port are right")
 
 
 __all__ = ["local_pool", "stop_pool", "worker_init", "check_address", "dask_client"]

@@ -108,3 +108,37 @@ def test_unreachable_scheduler_from_the_command_line(tmp_path):
     assert proc.returncode == 1
     assert proc.stderr.count("\n") == 1 and "Traceback" not in proc.stderr, proc.stderr
     assert f"127.0.0.1:{port}" in proc.stderr
+
+
+def test_a_silent_listener_is_one_line_and_nothing_after(tmp_path):
+    # something listens on the loopback port but never speaks Dask: one line, no destructor noise
+    pytest.importorskip("distributed", reason="dask.distributed is not installed")
+    import threading
+    srv = socket.socket()
+    srv.bind(("127.0.0.1", 0))
+    srv.listen(4)
+    port = srv.getsockname()[1]
+    held, stop = [], threading.Event()
+
+    def accept():
+        srv.settimeout(0.2)
+        while not stop.is_set():
+            try:
+                held.append(srv.accept()[0])
+            except OSError:
+                pass
+    t = threading.Thread(target=accept, daemon=True)
+    t.start()
+    try:
+        proc = subprocess.run([sys.executable, "-m", "contourkit", "spectrum", SUPER, "--points", "2",
+                               "--scheduler", f"tcp://127.0.0.1:{port}"], env=_env(), capture_output=True,
+                              text=True, timeout=60)
+    finally:
+        stop.set()
+        t.join()
+        for c in held:
+            c.close()
+        srv.close()
+    assert proc.returncode == 1
+    assert proc.stderr.count("\n") == 1 and "Traceback" not in proc.stderr, proc.stderr
+    assert "no Dask scheduler answers" in proc.stderr
