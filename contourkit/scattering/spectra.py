@@ -10,6 +10,14 @@ followed frequency is evaluated in numpy extended precision with a
 first-order error bound (:mod:`contourkit.scattering.fastpath`), otherwise in mpmath
 with the precision escalation of scatter.
 
+This module is the contour method's core: :func:`follow_rows` (the following
+loop, one block of frequencies), :func:`result_row` and the :class:`Spectrum`
+table.  ``model.spectrum`` is the general engine built on it
+(:func:`contourkit.scans.engine.spectrum`, one layer up: both methods, files
+and resumption, progress, workers that end with their parent, Dask); the
+:func:`spectrum` here is the in-memory contour-only form, whose ``workers``
+are plain process pools.
+
 References
 ----------
 .. [1] M. V. Berry, Proc. R. Soc. A 422 (1989) 7 (Stokes lines).
