@@ -28,7 +28,7 @@ TANH = "quartic_superluminal"          # shipped example with a tanh profile
 BAD_VALUES = {
     P.positive_float: ["abc", "-1", "0", "nan", "inf", "1e400"],
     P.positive_int: ["abc", "0", "-3", "2.5"],
-    P.finite_float: ["abc", "nan", "-inf"],
+    P.finite_float: ["abc", "nan", "-inf", "1e300"],
     P.tolerance: ["0", "1", "7", "abc"],
 }
 OUTPUTS = {"out", "json", "out_dir"}
@@ -146,3 +146,17 @@ def test_a_sample_in_real_processes(tmp_path):
                               env=env, cwd=tmp_path, timeout=120)
         assert proc.returncode != 0, label
         assert len(proc.stderr.strip().splitlines()) == 1 and "Traceback" not in proc.stderr, (label, proc.stderr)
+
+
+def test_reported_reproducers(tmp_path, capsys, monkeypatch):
+    # the two commands of the issue that ended in tracebacks
+    monkeypatch.setenv("MPLBACKEND", "Agg")
+    monkeypatch.chdir(tmp_path)
+    code = main(["derive", "--catalogue", "quartic_flow", "--param", "kappa=1e-300"])
+    err = capsys.readouterr().err
+    assert "Traceback" not in err and len(err.strip().splitlines()) <= 1
+    if code != 0:
+        assert err.startswith("contourkit: error: ")
+    code = main(["figures", "--example", TANH, "--x", "1e300", "--out-dir", str(tmp_path / "f")])
+    err = capsys.readouterr().err
+    assert code != 0 and err.count("\n") == 1 and "--x" in err
