@@ -2,8 +2,10 @@
 
 Imports the symbolic, geometry and evaluation layers.  Entry points:
 :func:`.smatrix.scatter` (one frequency), :func:`.spectra.spectrum` (many,
-with the geometry followed in omega), the result objects of :mod:`.results`
-and the Bogoliubov figures of :mod:`.bogoliubov`.
+with the geometry followed in omega; ``model.spectrum`` is the engine of
+:mod:`contourkit.scans` built on it), the result objects of :mod:`.results`,
+the Bogoliubov figures of :mod:`.bogoliubov` and the notebook display of
+:mod:`.display`.
 
 ``contourkit.scattering`` was a single module before the layout in
 subpackages; its names (``scatter``, ``continuation_ratio``, ...) are still
@@ -16,7 +18,7 @@ from .smatrix import continuation_ratio, scatter
 from .spectra import Spectrum, spectrum
 
 extensions.provide("scatter", scatter)
-extensions.provide("spectrum", spectrum)
+# model.spectrum is provided by contourkit.scans (the engine built on .spectra)
 
 __all__ = ["Mode", "RowTable", "ScatteringResult", "Spectrum", "continuation_ratio", "scatter", "spectrum"]
 
