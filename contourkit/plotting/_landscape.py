@@ -193,8 +193,9 @@ def landscape(rep, x, contour=None, *, omega=None, window=None, zoom="auto", ax=
     with matplotlib.rc_context(style_rc(style)):
         fig, ax, zaxes, lcell = _layout(ax, len(zooms), legend)
         opts = dict(resolution=resolution, clip=clip, n_levels=n_levels)
+        kids = lambda j: [w for p, w in zooms if p == j]  # noqa: E731
         mesh, _c, handles = draw_panel(ax, rep, x, win, sad, crit, geom, coeffs, valleys=holds_all,
-                                       panel_inches=_inches(ax), **opts)
+                                       panel_inches=_inches(ax), children=kids(0), **opts)
         ax.set_xlabel(r"$\mathrm{Re}\,k$")
         ax.set_ylabel(r"$\mathrm{Im}\,k$")
         ax.set_title(("(a) " if zooms else "") + title)
@@ -205,7 +206,7 @@ def landscape(rep, x, contour=None, *, omega=None, window=None, zoom="auto", ax=
             letter = "abcdefgh"[j + 1]
             zoom_frame(ax if parent == 0 else zaxes[parent - 1], zw, wins[parent], letter)
             zmesh, _zc, zh = draw_panel(zax, rep, x, zw, sad, crit, geom, coeffs, valleys=False,
-                                        panel_inches=_inches(zax), **opts)
+                                        panel_inches=_inches(zax), children=kids(j + 1), **opts)
             for k, v in zh.items():
                 handles.setdefault(k, v)
             zax.set_title(f"({letter}) \N{MULTIPLICATION SIGN}{magnification(wins[parent], zw)}", fontsize=8, loc="right")

@@ -167,7 +167,7 @@ def colour_scale(rep, x, crit, win, Pre, clip=None):
 
 
 def draw_panel(ax, rep, x, win, sad, crit, geom, coeffs, *, resolution, clip, n_levels, valleys,
-               panel_inches):
+               panel_inches, children=()):
     """Draw one panel into ax; returns (mesh, clip, handles: dict label -> legend handle)."""
     xmin, xmax, ymin, ymax = win
     nx = int(resolution)
@@ -198,7 +198,7 @@ def draw_panel(ax, rep, x, win, sad, crit, geom, coeffs, *, resolution, clip, n_
         _draw_valleys(ax, rep, x, win, size, handles)
     _draw_cuts(ax, rep, win, handles)
     if geom is not None:
-        _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles)
+        _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles, children)
     for kind, gid in _KINDS:
         pts = np.array([s.k for s in rep.singularities if s.kind == kind], dtype=complex)
         if pts.size:
@@ -260,7 +260,7 @@ def _draw_cuts(ax, rep, win, handles):
         handles[LEGEND["cut"]] = Line2D([], [], color=PALETTE["cut"], lw=1.2, ls=(0, (1.0, 1.2)))
 
 
-def _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles):
+def _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles, children=()):
     for n, i, _cl in coeffs:
         t = geom.thimbles[i]
         n = complex(n)
@@ -271,7 +271,9 @@ def _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles):
             ax.plot(pts.real, pts.imag, color=PALETTE["contour"], lw=1.3, zorder=5, gid="descent-arm",
                     solid_capstyle="round")
             _arrow(ax, pts, win, out == forward, PALETTE["contour"], size)
-        if ((real and abs(abs(n.real) - 1) > 1e-9) or not real) and inside([t.sigma], win)[0]:
+        zoomed = any(abs(t.sigma - complex((w[0] + w[1]) / 2, (w[2] + w[3]) / 2)) < max(width(w), 0.06 * width(win))
+                     for w in children)             # written in the zoom panel instead
+        if ((real and abs(abs(n.real) - 1) > 1e-9) or not real) and inside([t.sigma], win)[0] and not zoomed:
             txt = "\N{MULTIPLICATION SIGN}" + fmt_coeff(abs(n.real) if real else n)
             ax.annotate(txt, (t.sigma.real, t.sigma.imag), xytext=(5, 5), textcoords="offset points",
                         fontsize=7, zorder=8, gid="coefficient",

@@ -266,7 +266,7 @@ def _draw(top, bottom, series, xaxis, T0, omega_max):
     occs = occs[occs > 0]
     if occs.size:
         olo, ohi = float(np.min(occs)), float(np.max(occs))
-        pad = 10 ** max(0.3, 0.06 * math.log10(ohi / olo))      # 6 % of the decades, at least a factor 2
+        pad = 10 ** min(max(0.3, 0.06 * math.log10(ohi / olo)), 0.9)    # 6 % of the decades, 0.3 ... 0.9
         top.set_ylim(olo / pad, ohi * pad)
     vals = np.concatenate([s[3][np.isfinite(s[3])] for s in series.values()] + [np.array([1.0])])
     dev = float(np.max(np.abs(vals - 1.0)))
