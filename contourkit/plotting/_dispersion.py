@@ -150,11 +150,14 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
     return fig, ax
 
 
-def _extrema(D, omega):
-    """The extrema of the real branches (cut-offs: D = dD/dk = 0 at real k) worth showing beside omega."""
-    from ..profiles.cutoff import cutoffs
+def _extrema(D, omega, model=None, side=None):
+    """The extrema of the real branches (cut-offs: D = dD/dk = 0 at real k) worth showing beside omega.
+
+    For an asymptotic region (``model`` given) the model's cached cut-offs of that side are used.
+    """
+    from ..profiles.cutoff import cutoffs, model_cutoffs
     try:
-        cs = cutoffs(D)
+        cs = [c for c in model_cutoffs(model) if c.side == side] if model is not None else cutoffs(D)
     except Exception:   # a display aid only: a dispersion relation the cut-off search cannot take shows none
         return []
     if not cs:
@@ -228,7 +231,7 @@ def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
         else:
             modes = planewaves.local_modes(model, omega, x, side)
     prop = [m for m in modes if m.kind == "propagating"]
-    extrema = _extrema(D, omega)
+    extrema = _extrema(D, omega, model if x is None else None, side)
     if krange is None:
         krange = _auto_krange(model, modes, prop, extrema, omega)
     kg = np.linspace(krange[0], krange[1], 801)
