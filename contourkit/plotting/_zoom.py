@@ -43,13 +43,13 @@ def inside(p, win):
 
 
 def shown_starts(starts, saddles, win):
-    """The path starts worth a marker in ``win``: those visibly away from every saddle."""
+    """The path starts worth a marker in ``win``: those inside it and visibly away from every saddle."""
     starts = np.asarray(starts, dtype=complex)
     saddles = np.asarray(saddles, dtype=complex)
     if not starts.size:
         return starts
     tol = START_FRACTION * width(win)
-    keep = [p for p in starts if not saddles.size or np.min(np.abs(saddles - p)) > tol]
+    keep = [p for p in starts[inside(starts, win)] if not saddles.size or np.min(np.abs(saddles - p)) > tol]
     return np.array(keep, dtype=complex)
 
 
