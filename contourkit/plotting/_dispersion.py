@@ -296,17 +296,24 @@ def _draw_roots(ax, prop, omega, *, skip_labels=(), legend=False, fontsize=7.5):
                     bbox=dict(boxstyle="round,pad=0.1", fc="white", ec="none", alpha=0.85))
 
 
-def _close_roots(kk, krange, fraction=0.02):
-    """Indices of the first group of real roots closer than ``fraction`` of the k range (empty if none)."""
+def _close_roots(kk, krange, fraction=0.02, chain=0.035):
+    """Indices of the first group of real roots with a gap below ``fraction`` of the k range (empty if none).
+
+    The group takes in its neighbours up to gaps of ``chain`` of the k range, so that the inset shows
+    every root of the crowded stretch.
+    """
     order = np.argsort(kk)
-    tol = fraction * (krange[1] - krange[0])
-    group = []
-    for a, b in zip(order[:-1], order[1:]):
-        if kk[b] - kk[a] < tol:
-            group += [a, b] if not group or group[-1] != a else [b]
-        elif group:
-            break
-    return sorted(set(int(i) for i in group))
+    span = krange[1] - krange[0]
+    gaps = np.diff(kk[order])
+    close = np.nonzero(gaps < fraction * span)[0]
+    if not close.size:
+        return []
+    lo = hi = int(close[0])                       # the gap between order[lo] and order[lo + 1]
+    while lo > 0 and gaps[lo - 1] < chain * span:
+        lo -= 1
+    while hi + 1 < gaps.size and gaps[hi + 1] < chain * span:
+        hi += 1
+    return sorted(int(i) for i in order[lo:hi + 2])
 
 
 def _root_zoom(ax, coeffs_w, dDdw, prop, group, omega, krange, wrange):

@@ -5,7 +5,7 @@ import matplotlib
 import numpy as np
 from matplotlib.colors import ListedColormap
 from matplotlib.lines import Line2D
-from matplotlib.patches import FancyArrowPatch, Patch, Rectangle, Wedge
+from matplotlib.patches import FancyArrowPatch, Patch, Polygon, Rectangle
 
 from ..geometry import phase
 from ._style import MARKERS, PALETTE
@@ -220,15 +220,19 @@ def _draw_valleys(ax, rep, x, win, size, handles):
     """Hatched bands at the window edge in the valley directions, with an outward arrow and the index."""
     xmin, xmax, ymin, ymax = win
     c = complex((xmin + xmax) / 2, (ymin + ymax) / 2)
-    corner = abs(complex(xmax, ymax) - c)
     valleys = rep.valleys_at(x)
     for v in valleys:
         d = complex(math.cos(v.center), math.sin(v.center))
         edge = _edge_distance(c, d, win)
-        r_in = 0.88 * edge                                   # the band is 12 % of the way to the edge
-        w = Wedge((c.real, c.imag), 1.5 * corner, math.degrees(v.center - v.halfwidth),
-                  math.degrees(v.center + v.halfwidth), width=1.5 * corner - r_in, facecolor=(0.3, 0.3, 0.3, 0.14),
-                  edgecolor=PALETTE["valley"], hatch="////", lw=0.5, zorder=2)
+        # a band along the window edge, 12 % of the half-width deep, scaled to the window
+        th = np.linspace(v.center - v.halfwidth, v.center + v.halfwidth, 61)
+        dirs = np.exp(1j * th)
+        e = np.array([_edge_distance(c, dd, win) for dd in dirs])
+        inner = c + (e - 0.12 * min(xmax - xmin, ymax - ymin) / 2) * dirs
+        outer = c + 1.02 * e * dirs
+        ring = np.concatenate([inner, outer[::-1]])
+        w = Polygon(np.column_stack([ring.real, ring.imag]), closed=True, facecolor=(0.3, 0.3, 0.3, 0.14),
+                    edgecolor=PALETTE["valley"], hatch="////", lw=0.5, zorder=2)
         w.set_gid("valley")
         ax.add_patch(w)
         tip, tail = c + 0.985 * edge * d, c + 0.80 * edge * d
