@@ -97,9 +97,14 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
         with ``x=None`` the asymptotic region of that side is drawn.
     ax : matplotlib Axes, optional
     krange : (kmin, kmax), optional
-        Default: 1.3 times the largest real root (or a scale of the model).
+        Default: centred on the real roots at omega and on the extrema of the
+        branches that set a cut-off (marked, gid ``"cutoff"``), with a quarter
+        of their spread on each side.
     wrange : (min, max), optional
-        Vertical range (omega, or x' for a ModeEquation).  Default: from the branches in krange.
+        Vertical range (omega, or x' for a ModeEquation).  Default: 0, omega and
+        the cut-off extrema with 30 % of their spread as margin (without them,
+        the branches in krange).  Real roots closer than 2 % of the k range get
+        an inset (axes labelled ``"root-zoom"``) showing them apart.
     legend : bool
     style : "journal", None or dict
 

@@ -96,7 +96,7 @@ def test_dielectric_front_landscape_nested_zooms(tmp_path):
     omega = float(m.kappa)
     x = -1 / omega
     rep = m.mode_equation(omega).fourier()
-    fig, ax = plotting.landscape(rep, x, ck.Contour.real_axis(), omega=omega, resolution=121)
+    fig, ax = plotting.landscape(rep, x, ck.Contour.real_axis(), omega=omega, resolution=61)
     zooms = _zooms(fig)
     assert 2 <= len(zooms) <= 4
     # the saddle next to the branch point near k = -1e-3 (2.8e-5 apart, from rep.saddles / rep.branch_points)
@@ -226,7 +226,8 @@ def test_axis_excess_detects_a_runaway_axis():
     assert max(axis_excess(fig).values()) > 100
 
 
-@pytest.mark.parametrize("name", ["nondispersive", "quartic", "subluminal", "dielectric", "file"])
+@pytest.mark.parametrize("name", ["nondispersive", "quartic", "subluminal",
+                                  pytest.param("dielectric", marks=pytest.mark.slow), "file"])
 def test_spectrum_of_each_model(name, tmp_path):
     models = {"nondispersive": lambda: ck.catalogue.nondispersive_flow(),
               "quartic": lambda: ck.catalogue.quartic_flow(),
