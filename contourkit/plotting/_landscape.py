@@ -84,7 +84,7 @@ def landscape(rep, x, contour=None, *, omega=None, window=None, zoom="auto", ax=
         Frequency: builds the representation of a HorizonModel; shown in the title.
     window : (xmin, xmax, ymin, ymax), optional
         Main region of the k plane (default: a square holding every saddle,
-        critical point and singular point with a 30 % margin).
+        singular point and start of a drawn path with a 30 % margin).
     zoom : "auto", False, int or list of windows
         "auto": zoom panels where points are closer than 4 % of the window
         (at most 4); an int: at most that many; False: none; a list of
@@ -177,9 +177,10 @@ def landscape(rep, x, contour=None, *, omega=None, window=None, zoom="auto", ax=
     if contour is not None:
         geom, coeffs = decompose(rep, contour, x)
     sing = np.array([s.k for s in rep.singularities], dtype=complex)
-    allpts = np.concatenate([sad, np.asarray(crit, complex), sing])
-    win = _check_window(window) if window is not None else auto_window(allpts)
     starts = [geom.thimbles[i].sigma for _n, i, _c in coeffs] if geom is not None else []
+    # the points drawn: saddles, singular points and the starts of the drawn paths
+    allpts = np.concatenate([sad, sing, np.asarray(starts, complex)])
+    win = _check_window(window) if window is not None else auto_window(allpts)
 
     def points_in(w):
         return np.concatenate([sad, sing, shown_starts(starts, sad, w)])

@@ -161,7 +161,7 @@ def spectrum(spec_or_rows, *, direct=None, ax=None, xaxis="omega/T_H", omega_max
     >>> import matplotlib; matplotlib.use("Agg")
     >>> rows = [{"omega": w, "hawking_temperature": 0.01, "occupation": 1 / math.expm1(w / 0.01),
     ...          "temperature_ratio": 1.0, "method": "contour"} for w in (0.005, 0.01, 0.02)]
-    >>> fig, (top, bottom) = spectrum(rows, omega_max=0.03)
+    >>> fig, (top, bottom) = spectrum(rows, omega_max=0.025)
     >>> sorted(l.get_gid() for l in top.get_lines())
     ['cutoff', 'occupation-contour', 'thermal']
     """
@@ -251,7 +251,7 @@ def _draw(top, bottom, series, xaxis, T0, omega_max):
     xlo, xhi = lo - 0.04 * span, hi + 0.04 * span
     if omega_max is not None:
         xc = conv(omega_max, T0)
-        if xc <= lo + 1.5 * (hi - lo) + 0.5 * abs(hi) * (hi == lo):
+        if xc <= 1.5 * hi:
             xhi = max(xhi, xc + 0.04 * span)
             for a in (top, bottom):
                 a.axvline(xc, color=PALETTE["cut"], lw=0.9, ls=(0, (5, 2, 1, 2)), zorder=3, gid="cutoff",

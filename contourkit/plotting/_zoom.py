@@ -88,7 +88,7 @@ def zoom_window(group, *, margin=0.6):
     g = np.asarray(group, dtype=complex)
     c = complex((g.real.min() + g.real.max()) / 2, (g.imag.min() + g.imag.max()) / 2)
     half = max(np.ptp(g.real), np.ptp(g.imag)) / 2 * (1 + margin)
-    return (c.real - half, c.real + half, c.imag - half, c.imag + half)
+    return (float(c.real - half), float(c.real + half), float(c.imag - half), float(c.imag + half))
 
 
 def zoom_windows(points_in, win, *, max_panels=4, fraction=ZOOM_FRACTION):
