@@ -275,7 +275,7 @@ def _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles, children=()):
             ax.plot(pts.real, pts.imag, color=PALETTE["contour"], lw=1.3, zorder=5, gid="descent-arm",
                     solid_capstyle="round")
             _arrow(ax, pts, win, out == forward, PALETTE["contour"], size)
-        zoomed = any(abs(t.sigma - complex((w[0] + w[1]) / 2, (w[2] + w[3]) / 2)) < max(width(w), 0.06 * width(win))
+        zoomed = any(abs(t.sigma - complex((w[0] + w[1]) / 2, (w[2] + w[3]) / 2)) < max(width(w), 0.1 * width(win))
                      for w in children)             # written in the zoom panel instead
         if ((real and abs(abs(n.real) - 1) > 1e-9) or not real) and inside([t.sigma], win)[0] and not zoomed:
             txt = "\N{MULTIPLICATION SIGN}" + fmt_coeff(abs(n.real) if real else n)
@@ -293,8 +293,8 @@ def _draw_paths(ax, rep, geom, coeffs, win, sad, size, handles, children=()):
 
 
 def zoom_frame(ax, win, parent, label):
-    """The outline of a zoom window in its parent panel (at least 6 % of the parent wide), with its letter."""
-    half = max(width(win), 0.06 * width(parent)) / 2
+    """The outline of a zoom window in its parent panel (at least 10 % of the parent wide), with its letter."""
+    half = max(width(win), 0.1 * width(parent)) / 2
     c = complex((win[0] + win[1]) / 2, (win[2] + win[3]) / 2)
     win = (c.real - half, c.real + half, c.imag - half, c.imag + half)
     r = Rectangle((win[0], win[2]), win[1] - win[0], win[3] - win[2], fill=False, ec="black", lw=0.7,
