@@ -7,7 +7,7 @@ import argparse
 import os
 import pathlib
 
-from ..errors import InputError
+from ..errors import ContourError, InputError
 from .parser import parallel_options, positive_float, positive_int, range_options, finite_float, tolerance
 from .registry import COMMANDS, command
 from .source import UsageError, check_frequencies, load, require_horizon
@@ -234,19 +234,28 @@ def run_figures(args):
                          f"|x| <= {MAX_POSITION:g} (near-horizon coordinates, horizon at x = 0)")
     rep = eq.fourier()
     written = []
+    from ..geometry.contours import Contour
+    w_title = f", $\\omega = {omega:g}$" if omega is not None else ""
     for x in xs:
-        fig, _ = plotting.landscape(rep, x)
+        # the real-axis contour, then each basis contour, on its steepest-descent paths
+        try:
+            fig, _ = plotting.landscape(rep, x, Contour.real_axis(), omega=omega)
+        except ContourError:      # the real axis runs into a hill there: the plane without it
+            fig, _ = plotting.landscape(rep, x, omega=omega,
+                                        title=f"$x = {x:g}${w_title} (real axis diverges)")
         written += _save(plotting, fig, out_dir / f"landscape_x{x:+g}", formats)
+        for i, c in enumerate(rep.basis(), start=1):
+            fig, _ = plotting.landscape(rep, x, c, omega=omega, title=f"$x = {x:g}${w_title}: $C_{i}$")
+            written += _save(plotting, fig, out_dir / f"landscape_x{x:+g}_C{i}", formats)
     if horizon:
         for x in xs:
             fig, _ = plotting.dispersion(model, x=model.horizon + x, omega=omega)
             written += _save(plotting, fig, out_dir / f"dispersion_x{x:+g}", formats)
         rows = (read_table(args.table) if args.table is not None else
                 spectrum(model, omega_range(model, args), progress=False, on_error="record", **parallel).rows)
-        rows = [r for r in rows if r["success"]]
-        if not rows:
+        if not any(r["success"] for r in rows):
             raise CommandFailed("no frequency of the spectrum succeeded; nothing to draw")
-        fig, _ = plotting.spectrum(rows)
+        fig, _ = plotting.spectrum(rows, model=model)      # failed rows are left out, the cut-off is marked
         written += _save(plotting, fig, out_dir / "spectrum", formats)
     for p in written:
         print(p)

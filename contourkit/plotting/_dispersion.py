@@ -12,8 +12,7 @@ from ..symbolic._sym import OMEGA, KS
 
 X = sp.Symbol("x")
 
-NORM_LABEL = {1: r"positive norm ($\partial D/\partial\omega > 0$)",
-              -1: r"negative norm ($\partial D/\partial\omega < 0$)"}
+NORM_LABEL = {1: r"norm $> 0$", -1: r"norm $< 0$"}
 
 
 def _check_range(r, name):
@@ -98,9 +97,14 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
         with ``x=None`` the asymptotic region of that side is drawn.
     ax : matplotlib Axes, optional
     krange : (kmin, kmax), optional
-        Default: 1.3 times the largest real root (or a scale of the model).
+        Default: centred on the real roots at omega and on the extrema of the
+        branches that set a cut-off (marked, gid ``"cutoff"``), with a quarter
+        of their spread on each side.
     wrange : (min, max), optional
-        Vertical range (omega, or x' for a ModeEquation).  Default: from the branches in krange.
+        Vertical range (omega, or x' for a ModeEquation).  Default: 0, omega and
+        the cut-off extrema with 30 % of their spread as margin (without them,
+        the branches in krange).  Real roots closer than 2 % of the k range get
+        an inset (axes labelled ``"root-zoom"``) showing them apart.
     legend : bool
     style : "journal", None or dict
 
@@ -151,6 +155,48 @@ def dispersion(model_or_eq, x=None, omega=None, *, side=None, ax=None, krange=No
     return fig, ax
 
 
+def _extrema(D, omega, model=None, side=None):
+    """The extrema of the real branches (cut-offs: D = dD/dk = 0 at real k) worth showing beside omega.
+
+    For an asymptotic region (``model`` given) the model's cached cut-offs of that side are used.
+    """
+    from ..profiles.cutoff import cutoffs, model_cutoffs
+    try:
+        cs = [c for c in model_cutoffs(model) if c.side == side] if model is not None else cutoffs(D)
+    except Exception:   # a display aid only: a dispersion relation the cut-off search cannot take shows none
+        return []
+    if not cs:
+        return []
+    top = max(abs(omega) if omega is not None else 0.0, cs[0].omega)
+    return [c for c in cs if c.omega <= 2.0 * top]
+
+
+def _auto_krange(model, modes, prop, extrema, omega):
+    """k range centred on the real roots at omega and the extrema, with a quarter of their spread each side."""
+    ks = [m.k.real for m in prop] + [c.k for c in extrema]
+    if not ks and omega is not None:
+        ks = [abs(m.k) for m in modes] + [-abs(m.k) for m in modes]
+    if not ks:
+        scale = float(getattr(model, "Lambda", None) or 1.0)
+        return (-1.3 * scale, 1.3 * scale)
+    lo, hi = min(ks + [0.0]), max(ks + [0.0])
+    pad = max(0.25 * (hi - lo), 0.1 * max(abs(lo), abs(hi)), 1e-9)
+    return (lo - pad, hi + pad)
+
+
+def _auto_wrange(W, omega, extrema):
+    """omega range holding 0, omega and the extrema with 30 % of their spread as margin (or the branches)."""
+    ws = [0.0] + ([omega] if omega is not None else []) + [c.omega for c in extrema]
+    if len(ws) > 1:
+        lo, hi = min(ws), max(ws)
+        pad = 0.3 * (hi - lo)
+        return (lo - pad, hi + pad)
+    fin = W[np.isfinite(W)]
+    if fin.size and np.ptp(fin) > 0:
+        return (float(fin.min()), float(fin.max()))
+    return (-1.0, 1.0)
+
+
 def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
     from ..profiles import planewaves
     if side is not None and side not in ("exterior", "interior"):
@@ -178,6 +224,8 @@ def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
             side = "exterior" if x > xh else "interior"
         D = sp.expand(model.dispersion.subs(X, sp.Rational(repr(x))))
         where = f"$x = {x:g}$ ({side})"
+    if omega is not None:
+        where += f", $\\omega = {omega:g}$"
     poly = sp.Poly(D, OMEGA)
     coeffs_w = [sp.lambdify(KS, poly.coeff_monomial(OMEGA ** p), "numpy") for p in range(poly.degree() + 1)]
     dDdw = sp.lambdify((OMEGA, KS), sp.diff(D, OMEGA), "numpy")
@@ -188,18 +236,45 @@ def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
         else:
             modes = planewaves.local_modes(model, omega, x, side)
     prop = [m for m in modes if m.kind == "propagating"]
+    extrema = _extrema(D, omega, model if x is None else None, side)
     if krange is None:
-        ks = [abs(m.k.real) for m in prop]
-        if not ks and omega is not None:
-            ks = [abs(m.k) for m in modes]
-        scale = max(ks) if ks else 0.0
-        if scale == 0:
-            scale = float(getattr(model, "Lambda", None) or 1.0)
-        krange = (-1.3 * scale, 1.3 * scale)
+        krange = _auto_krange(model, modes, prop, extrema, omega)
     kg = np.linspace(krange[0], krange[1], 801)
     W, S = _branches(coeffs_w, dDdw, kg)
+    _draw_branches(ax, kg, W, S, legend=True)
+    if wrange is None:
+        wrange = _auto_wrange(W, omega, extrema)
+    for c in extrema:
+        ax.plot([c.k], [c.omega], ls="none", marker="v", ms=4.5, mfc="white", mec=PALETTE["negative" if c.norm < 0
+                else "positive"], mew=1.0, zorder=6, gid="cutoff", label=r"cut-off $\omega_\mathrm{max}$")
+        ax.annotate(rf"$\omega_\mathrm{{max}} = {c.omega:.3g}$", (c.k, c.omega), xytext=(0, 6),
+                    textcoords="offset points", ha="center", va="bottom", fontsize=7, zorder=7, gid="cutoff-label",
+                    bbox=dict(boxstyle="round,pad=0.1", fc="white", ec="none", alpha=0.85))
+    ax.set_xlim(*krange)
+    ax.set_ylim(*wrange)
+    if omega is not None:
+        ax.axhline(omega, color=PALETTE["omega"], lw=0.7, ls=(0, (1, 1.5)), zorder=2, gid="omega-line",
+                   label=rf"$\omega = {omega:g}$")
+        if prop:
+            kk = np.array([m.k.real for m in prop])
+            group = _close_roots(kk, krange)
+            _draw_roots(ax, prop, omega, skip_labels=group, legend=True)
+            if group:
+                _root_zoom(ax, coeffs_w, dDdw, prop, group, omega, krange, wrange)
+    ax.axhline(0, color="0.75", lw=0.4, zorder=1)
+    ax.axvline(0, color="0.75", lw=0.4, zorder=1)
+    ax.set_xlabel(r"$k$")
+    ax.set_ylabel(r"$\omega$")
+    ax.set_title(where)
+    if legend:
+        leg = ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.2), ncol=3, frameon=False, fontsize=7,
+                        handlelength=1.8, columnspacing=0.8)
+        leg.set_gid("legend")
+
+
+def _draw_branches(ax, kg, W, S, *, legend):
     for sgn in (1, -1):
-        first = True
+        first = legend
         for b in range(W.shape[0]):
             m = S[b] == sgn
             # widen each run by one point so that the two colours meet without a gap
@@ -210,38 +285,91 @@ def _model_diagram(ax, model, x, omega, side, krange, wrange, legend):
             ax.plot(kg, y, color=PALETTE["positive" if sgn > 0 else "negative"], ls=NORM_LINESTYLE[sgn], lw=1.2,
                     gid="branch+" if sgn > 0 else "branch-", label=NORM_LABEL[sgn] if first else None, zorder=3)
             first = False
-    if wrange is None:
-        fin = W[np.isfinite(W)]
-        if omega is not None:
-            top = max(4 * abs(omega), float(np.percentile(np.abs(fin), 75)) if fin.size else 1.0)
-            wrange = (-top, top)
-        elif fin.size:
-            wrange = (float(fin.min()), float(fin.max()))
-        else:
-            wrange = (-1.0, 1.0)
-    if omega is not None:
-        ax.axhline(omega, color=PALETTE["omega"], lw=0.7, ls=(0, (1, 1.5)), zorder=2, gid="omega-line",
-                   label=rf"$\omega = {omega:g}$")
-        if prop:
-            kk = np.array([m.k.real for m in prop])
-            ax.plot(kk, np.full(kk.size, omega), ls="none", marker=MARKERS["intersection"], ms=4.5, mfc="white",
-                    mec="black", mew=0.9, zorder=6, gid="intersection", label="real root (mode)")
-            offs = _label_positions(kk, ax)
-            for m, dy in zip(prop, offs):
-                ax.annotate(m.name, (m.k.real, omega), xytext=(0, dy), textcoords="offset points",
-                            ha="center", va="bottom" if dy > 0 else "top", fontsize=7.5, zorder=7,
-                            gid="root-label", arrowprops=dict(arrowstyle="-", lw=0.4, color="0.3",
-                                                              shrinkA=0, shrinkB=2.5),
-                            bbox=dict(boxstyle="round,pad=0.1", fc="white", ec="none", alpha=0.85))
-    ax.set_xlim(*krange)
-    ax.set_ylim(*wrange)
-    ax.axhline(0, color="0.75", lw=0.4, zorder=1)
-    ax.axvline(0, color="0.75", lw=0.4, zorder=1)
-    ax.set_xlabel(r"$k$")
-    ax.set_ylabel(r"$\omega$")
-    ax.set_title(where)
-    if legend:
-        ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.2), ncol=2, frameon=False)
+
+
+def _draw_roots(ax, prop, omega, *, skip_labels=(), legend=False, fontsize=7.5):
+    kk = np.array([m.k.real for m in prop])
+    ax.plot(kk, np.full(kk.size, omega), ls="none", marker=MARKERS["intersection"], ms=4.5, mfc="white",
+            mec="black", mew=0.9, zorder=6, gid="intersection", label="real root (mode)" if legend else None)
+    keep = [j for j in range(len(prop)) if j not in skip_labels]
+    offs = _label_positions(kk[keep], ax) if keep else []
+    for j, dy in zip(keep, offs):
+        m = prop[j]
+        ax.annotate(m.name, (m.k.real, omega), xytext=(0, dy), textcoords="offset points",
+                    ha="center", va="bottom" if dy > 0 else "top", fontsize=fontsize, zorder=7,
+                    gid="root-label", arrowprops=dict(arrowstyle="-", lw=0.4, color="0.3", shrinkA=0, shrinkB=2.5),
+                    bbox=dict(boxstyle="round,pad=0.1", fc="white", ec="none", alpha=0.85))
+
+
+def _close_roots(kk, krange, fraction=0.02, chain=0.035):
+    """Indices of the first group of real roots with a gap below ``fraction`` of the k range (empty if none).
+
+    The group takes in its neighbours up to gaps of ``chain`` of the k range, so that the inset shows
+    every root of the crowded stretch.
+    """
+    order = np.argsort(kk)
+    span = krange[1] - krange[0]
+    gaps = np.diff(kk[order])
+    close = np.nonzero(gaps < fraction * span)[0]
+    if not close.size:
+        return []
+    lo = hi = int(close[0])                       # the gap between order[lo] and order[lo + 1]
+    while lo > 0 and gaps[lo - 1] < chain * span:
+        lo -= 1
+    while hi + 1 < gaps.size and gaps[hi + 1] < chain * span:
+        hi += 1
+    return sorted(int(i) for i in order[lo:hi + 2])
+
+
+def _root_zoom(ax, coeffs_w, dDdw, prop, group, omega, krange, wrange):
+    """An inset zooming on real roots too close to tell apart, in the emptiest corner of the axes."""
+    ks = np.array([prop[j].k.real for j in group])
+    c, half = (ks.min() + ks.max()) / 2, max(np.ptp(ks), 1e-12) * 1.1
+    kwin = (c - half, c + half)
+    kg = np.linspace(kwin[0], kwin[1], 401)
+    W, S = _branches(coeffs_w, dDdw, kg)
+    fin = W[np.isfinite(W)]
+    wspan = (wrange[1] - wrange[0]) * (kwin[1] - kwin[0]) / (krange[1] - krange[0])
+    if fin.size:
+        wspan = max(wspan, 0.6 * float(np.ptp(np.clip(fin, omega - 10 * wspan, omega + 10 * wspan))))
+    wspan = min(wspan, 0.25 * (wrange[1] - wrange[0]))
+    wwin = (omega - wspan, omega + wspan)
+    # the corner whose box holds the fewest branch samples and roots
+    big = np.linspace(krange[0], krange[1], 801)
+    Wb, _ = _branches(coeffs_w, dDdw, big)
+    u = (np.broadcast_to(big, Wb.shape) - krange[0]) / (krange[1] - krange[0])
+    v = (Wb - wrange[0]) / (wrange[1] - wrange[0])
+    boxes = [(0.02, 0.56), (0.6, 0.56), (0.02, 0.04), (0.6, 0.04)]
+    kk = (np.array([m.k.real for m in prop]) - krange[0]) / (krange[1] - krange[0])
+    vv = (omega - wrange[0]) / (wrange[1] - wrange[0])
+
+    def ink(b):
+        inb = (u >= b[0]) & (u <= b[0] + 0.38) & (v >= b[1]) & (v <= b[1] + 0.4)
+        roots = np.sum((kk >= b[0] - 0.05) & (kk <= b[0] + 0.43) & (vv >= b[1] - 0.1) & (vv <= b[1] + 0.5))
+        return int(np.sum(inb)) + 1000 * int(roots)
+    bx = min(boxes, key=ink)
+    ins = ax.inset_axes([bx[0], bx[1], 0.38, 0.4])
+    ins.set_label("root-zoom")
+    ins.set_gid("root-zoom")
+    _draw_branches(ins, kg, W, S, legend=False)
+    ins.axhline(omega, color=PALETTE["omega"], lw=0.7, ls=(0, (1, 1.5)), zorder=2)
+    ins.set_xlim(*kwin)
+    ins.set_ylim(*wwin)
+    _draw_roots(ins, [prop[j] for j in group], omega, fontsize=6.5)
+    ins.tick_params(labelsize=6, pad=1.5)
+    for axis in (ins.xaxis, ins.yaxis):
+        axis.set_major_locator(matplotlib.ticker.MaxNLocator(3))
+        fmt = matplotlib.ticker.ScalarFormatter(useMathText=True)
+        fmt.set_powerlimits((-2, 4))
+        axis.set_major_formatter(fmt)
+        axis.get_offset_text().set_fontsize(6)
+    ins.patch.set_alpha(0.92)
+    from matplotlib.patches import Rectangle
+    fw = max(kwin[1] - kwin[0], 0.03 * (krange[1] - krange[0]))
+    fh = max(wwin[1] - wwin[0], 0.05 * (wrange[1] - wrange[0]))
+    ax.add_patch(Rectangle((c - fw / 2, omega - fh / 2), fw, fh, fill=False, ec="black", lw=0.6, zorder=8,
+                           gid="zoom-frame"))
+    return ins
 
 
 def _equation_diagram(ax, eq, x, omega, side, krange, wrange, legend):
@@ -291,4 +419,5 @@ def _equation_diagram(ax, eq, x, omega, side, krange, wrange, legend):
     ax.set_ylabel(r"position $x$")
     ax.set_title("local dispersion relation")
     if legend:
-        ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.2), ncol=2, frameon=False)
+        leg = ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.2), ncol=2, frameon=False, fontsize=7)
+        leg.set_gid("legend")

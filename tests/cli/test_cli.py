@@ -109,7 +109,9 @@ def test_figures(tmp_path):
                "--points", "3", "--workers", "1")
     assert proc.returncode == 0, proc.stderr
     names = sorted(p.name for p in (tmp_path / "fig").iterdir())
-    assert names == ["dispersion_x+10.png", "landscape_x+10.png", "spectrum.png"]
+    # the real-axis contour and each of the two basis contours (second-order equation)
+    assert names == ["dispersion_x+10.png", "landscape_x+10.png", "landscape_x+10_C1.png", "landscape_x+10_C2.png",
+                     "spectrum.png"]
     assert all((tmp_path / "fig" / n).stat().st_size > 1000 for n in names)
 
 
