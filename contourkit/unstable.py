@@ -73,6 +73,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import scipy.sparse as sps
 import scipy.sparse.linalg as spla
+from threadpoolctl import threadpool_limits
 
 from .cutoff import cutoffs
 from .direct import _cheb, _nodes, _transfer, _window, left_form
@@ -98,10 +99,15 @@ class UnstableMode:
         evaluated between the collocation nodes (and of the global linear
         system), independent of the matching function used in the search.
     error_estimate : float
-        ``|omega(points) - omega(points + 8)|``.
+        ``|omega(points + 8) - omega(points + 16)|`` (search resolution ``points``).
     profile : tuple (x, phi)
         Positions (the collocation nodes of all segments) and the mode there,
         normalised to ``max |phi| = 1`` and real positive at its maximum.
+    oscillating : bool
+        False for a mode on the imaginary axis (``|Re omega|`` within ten times
+        the error estimate, or 1e-10 omega_max, of zero): a growth without
+        oscillation, its own mirror image.  True otherwise (then
+        ``-conj(omega)`` is a second, mirror mode of the same real field).
     points : int
         Chebyshev nodes per segment.
     window : (float, float)
@@ -116,6 +122,7 @@ class UnstableMode:
     residual: float
     error_estimate: float
     profile: tuple = field(repr=False)
+    oscillating: bool = True
     points: int = 24
     window: tuple = None
     dps: int = None
@@ -150,6 +157,11 @@ class ModeList(list):
         super().__init__(modes)
         self.box, self.count, self.mirrors = box, count, mirrors
         self.evaluations, self.success, self.message = evaluations, success, message
+
+    @property
+    def multiplicity(self):
+        """Zeros in the whole upper half plane: oscillating modes twice (with their mirrors), the others once."""
+        return sum(2 if md.oscillating else 1 for md in self)
 
     @property
     def dominant(self):
@@ -387,7 +399,10 @@ def _polish(func, z, found, scale, *, tol=1e-13, maxiter=60):
             v -= np.log(complex(w - r))
         return v
 
-    z0, z1 = complex(z), complex(z) + 1e-4 * scale * (1 + 0.5j)
+    # iterates that fall below the real axis are reflected: there f has the zeros of the time-reversed
+    # problem (decaying modes, at conj(omega)), which must not attract the search
+    z0 = complex(z.real, abs(z.imag))
+    z1 = z0 + 1e-4 * scale * (1 + 0.5j)
     g0, g1 = g(z0), g(z1)
     for _ in range(maxiter):
         if not np.isfinite(g1):
@@ -403,6 +418,8 @@ def _polish(func, z, found, scale, *, tol=1e-13, maxiter=60):
             return None
         z0, g0 = z1, g1
         z1 = z1 - step
+        if z1.imag <= 0:
+            z1 = complex(z1.real, max(-z1.imag, 1e-3 * abs(z0.imag)))
         g1 = g(z1)
         if abs(step) < tol * scale:
             return z1
@@ -508,7 +525,7 @@ def _number(name, v, *, positive=False, allow_none=True):
 
 
 def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=None, window=None,
-                   points=24, step=3.0, tol=1e-8, uniform_tol=1e-9):
+                   points=16, step=3.0, tol=1e-8, uniform_tol=1e-9):
     """Every complex omega with Im omega > 0 in a box, with no incoming wave on either side.
 
     Parameters
@@ -521,7 +538,7 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
         Right edge of the search box, Re omega < omega_max.  Default: the
         cavity cut-off (:func:`cavity_cutoff`), beyond which no mode is trapped.
     im_min, im_max : float, optional
-        Range of Im omega searched: default ``1e-3 omega_max`` and
+        Range of Im omega searched: default ``1e-6 omega_max`` and
         ``omega_max``.  Modes with a growth rate below im_min are not seen.
     re_min : float, optional
         Left edge, default ``-0.05 omega_max`` (so that modes on the
@@ -530,8 +547,9 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
         Integration window with uniform ends (default as in
         :func:`contourkit.direct.scatter`).
     points : int
-        Chebyshev nodes per segment (>= 8); the modes are located again with
-        ``points + 8`` for the error estimate and the reported values.
+        Chebyshev nodes per segment in the search (>= 8); each mode is then
+        located again with ``points + 8`` and ``points + 16`` nodes: the latter
+        gives the reported values and profile, the difference the error estimate.
     step : float
         Segment length times the largest local |k|.
     tol : float
@@ -579,7 +597,7 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
     im_min = _number("im_min", im_min, positive=True)
     im_max = _number("im_max", im_max, positive=True)
     re_min = _number("re_min", re_min)
-    im_min = 1e-3 * wmax if im_min is None else im_min
+    im_min = 1e-6 * wmax if im_min is None else im_min
     im_max = wmax if im_max is None else im_max
     re_min = -0.05 * wmax if re_min is None else re_min
     if not im_min < im_max:
@@ -606,20 +624,28 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
     if lead.min() <= 1e-12 * max(lead.max(), 1e-300):
         raise ScatteringError(f"the leading coefficient of the mode equation vanishes near x = "
                               f"{xs[int(np.argmin(lead))]:.4g}; unstable_modes needs a dispersive model")
+    with threadpool_limits(limits=1, user_api="blas"):     # small dense blocks: one thread is fastest
+        return _unstable(model, a, b, wmax, re_min, im_min, im_max, points, step, tol)
+
+
+def _unstable(model, a, b, wmax, re_min, im_min, im_max, points, step, tol):
     nodes, kmax = _nodes(model, wmax, a, b, step)
     K = max(kmax, 1e-3)
     coarse = _Matching(model, a, b, nodes, points, K)
     box = _make_box(coarse.logf, re_min, wmax, im_min, im_max)
     found, boxes = _search(coarse.logf, box, wmax)
-    fine = _Matching(model, a, b, nodes, points + 8, K)
+    middle = _Matching(model, a, b, nodes, points + 8, K)
+    fine = _Matching(model, a, b, nodes, points + 16, K)
     modes, mirrors = [], 0
     for r in found:
-        r2 = _polish(fine.logf, r, [], wmax)
+        r1 = _polish(middle.logf, r, [], wmax)
+        r2 = None if r1 is None else _polish(fine.logf, r1, [], wmax)
         if r2 is None:
             r2, err = r, math.inf
         else:
-            err = abs(r2 - r)
-        if r2.real < -max(10 * err, 1e-10 * wmax):
+            err = abs(r2 - r1)
+        axis = max(10 * err, 1e-10 * wmax)
+        if r2.real < -axis:
             mirrors += 1
             continue
         x, phi, res = fine.mode(r2)
@@ -627,7 +653,8 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
         msg = "" if ok else (f"residual {res:.1e} or error estimate {err:.1e} above tol = {tol:g}: lower step= or "
                              f"raise points=")
         modes.append(UnstableMode(omega=complex(r2), growth_rate=float(r2.imag), residual=res,
-                                  error_estimate=float(err), profile=(x, phi), points=points + 8,
+                                  error_estimate=float(err), profile=(x, phi), oscillating=abs(r2.real) > axis,
+                                  points=points + 16,
                                   window=(a, b), success=ok, message=msg))
     modes.sort(key=lambda md: -md.growth_rate)
     complete = len(found) == box.count
@@ -645,4 +672,5 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
         warnings.warn("unstable_modes: " + message + "; some mode is not accurate to tol or not located",
                       AccuracyWarning, stacklevel=2)
     return ModeList(modes, box=(box.re0, box.re1, box.im0, box.im1), count=box.count, mirrors=mirrors,
-                    evaluations=coarse.evaluations + fine.evaluations, success=success, message=message)
+                    evaluations=coarse.evaluations + middle.evaluations + fine.evaluations, success=success,
+                    message=message)
