@@ -277,7 +277,7 @@ def horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=5.0, branch="superluminal"):
     >>> m.horizon, m.white_horizon
     (5.0, -5.0)
     >>> round(m.kappa, 6), round(m.cavity_speed, 6)
-    (0.25, 1.499909)
+    (0.249977, 1.486704)
     """
     kappa = _positive("kappa", kappa)
     Lambda = _positive("Lambda", Lambda)

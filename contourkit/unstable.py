@@ -61,7 +61,7 @@ References
 Examples
 --------
 >>> from contourkit.catalogue import horizon_pair
->>> m = horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=2.0)
+>>> m = horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=1.0)
 >>> found = unstable_modes(m)
 >>> len(found), found.count
 (0, 0)
