@@ -27,23 +27,25 @@ excluded right roots (this factor removes most of the phase that the plane
 waves accumulate across the window).  ``det A`` comes from the sparse LU
 factors (product of the pivots and the permutation signs), kept as a
 logarithm.  With the segment nodes frozen, f is analytic in the upper half
-plane (no root crosses the real k axis there), so
+plane (no root crosses the real k axis there).
 
-*Counting.*  the argument principle on the boundary of the search box (each
-edge sampled adaptively until the phase of f changes by less than 0.5 rad and
-log|f| by less than 2 between neighbours) gives the number of modes inside;
+*Counting* (:mod:`contourkit.boxzeros`).  The argument principle on the
+boundary of the search box (each edge sampled adaptively until the phase of f
+changes by less than 0.5 rad and log|f| by less than 2 between neighbours)
+gives the number of modes inside.
 
-*Locating.*  the contour moments ``s_p = (1/2 pi i) oint omega^p f'/f`` give
+*Locating.*  The contour moments ``s_p = (1/2 pi i) oint omega^p f'/f`` give
 first estimates (Delves and Lyness [1]_), each polished by a secant iteration
 on ``log f`` deflated by the modes already found (no mode twice); when fewer
 modes than the count are found the box is bisected and each half counted.
 
-*Checking.*  each mode's profile is the null vector of ``A`` (inverse
+*Checking.*  Each mode's profile is the null vector of ``A`` (inverse
 iteration); its residual is that of the mode equation ``L_omega phi = 0``
 evaluated between the collocation nodes, where the discretisation did not
-impose it, relative to the size of its terms; its error estimate is the
-change of omega when the mode is located again with ``points + 8`` nodes per
-segment.
+impose it, relative to the size of its terms, and of the global system.  The
+search runs with ``points`` Chebyshev nodes per segment; each mode is then
+located again with ``points + 8`` and ``points + 16``: the last gives the
+reported omega and profile, the change between the two the error estimate.
 
 The equation is real in position and time, so with omega also ``-conj(omega)``
 is a mode (the same real field).  The default box reaches slightly into
@@ -56,7 +58,8 @@ References
    analytic function from contour integrals).
 .. [2] S. Corley, T. Jacobson, Phys. Rev. D 59 (1999) 124011 (black-hole laser).
 .. [3] A. Coutant, R. Parentani, Phys. Rev. D 81 (2010) 084042 (the unstable
-   modes of a horizon pair: discrete complex frequencies, some with Re omega = 0).
+   modes of a horizon pair: discrete complex frequencies; that some have
+   Re omega = 0 is recalled from memory and seen here).
 
 Examples
 --------
@@ -75,14 +78,11 @@ import scipy.sparse as sps
 import scipy.sparse.linalg as spla
 from threadpoolctl import threadpool_limits
 
+from .boxzeros import make_box, polish, search
 from .cutoff import cutoffs
 from .direct import _cheb, _nodes, _transfer, _window, left_form
 from .errors import AccuracyWarning, InputError, ScatteringError
 from .planewaves import X, asymptotic_dispersion, local_roots
-
-#: largest phase change (rad) of the matching function between boundary samples
-MAX_ARG_STEP = 0.5
-
 
 @dataclass
 class UnstableMode:
@@ -311,186 +311,16 @@ def _parity(p):
     return swaps % 2
 
 
-def _wrap(a):
-    return (a + math.pi) % (2 * math.pi) - math.pi
-
-
-class _Unresolved(Exception):
-    """A boundary edge passes through (or too near) a zero of the matching function."""
-
-
-def _edge(func, z0, z1, *, n0=16, max_depth=40):
-    """Adaptive samples of log f along the segment z0 -> z1: (points, continuous log f)."""
-    zs = z0 + (z1 - z0) * np.linspace(0.0, 1.0, n0 + 1)
-    fs = [func(z) for z in zs]
-    out_z, out_f = [zs[0]], [fs[0]]
-    min_len = abs(z1 - z0) * 2.0 ** -max_depth
-
-    def seg(za, fa, zb, fb):
-        if not (np.isfinite(fa) and np.isfinite(fb)):
-            raise _Unresolved(za if not np.isfinite(fa) else zb)
-        d = fb - fa
-        dphi = _wrap(d.imag)
-        if abs(dphi) > MAX_ARG_STEP or abs(d.real) > 2.0:
-            if abs(zb - za) < min_len:
-                raise _Unresolved(0.5 * (za + zb))
-            zm = 0.5 * (za + zb)
-            fm = func(zm)
-            seg(za, fa, zm, fm)
-            seg(zm, fm, zb, fb)
-            return
-        out_z.append(zb)
-        out_f.append(out_f[-1] + complex(d.real, dphi))
-
-    for i in range(len(zs) - 1):
-        seg(zs[i], fs[i], zs[i + 1], fs[i + 1])
-    return np.array(out_z), np.array(out_f)
-
-
-class _Box:
-    """A rectangle of the omega plane with its boundary samples, count and moments."""
-
-    def __init__(self, func, re0, re1, im0, im1, n0=16):
-        self.re0, self.re1, self.im0, self.im1 = re0, re1, im0, im1
-        corners = [complex(re0, im0), complex(re1, im0), complex(re1, im1), complex(re0, im1)]
-        zs, fs = [], []
-        for j in range(4):
-            z, f = _edge(func, corners[j], corners[(j + 1) % 4], n0=n0)
-            if fs:                               # join the edges continuously
-                f = f - f[0] + fs[-1][-1]
-            zs.append(z if not zs else z[1:])
-            fs.append(f if not fs else f[1:])
-        self.z = np.concatenate(zs)
-        self.f = np.concatenate(fs)
-        wind = (self.f[-1] - self.f[0]).imag / (2 * math.pi)
-        self.count = int(round(wind))
-        self.winding_error = abs(wind - self.count)
-        self.samples = len(self.z)
-
-    def moment(self, p):
-        """``(1/2 pi i) oint z^p dlog f`` by the midpoint rule on the samples."""
-        zm = 0.5 * (self.z[1:] + self.z[:-1])
-        return complex(np.sum(zm ** p * np.diff(self.f)) / (2j * math.pi))
-
-    def contains(self, z, margin=0.0):
-        dr, di = margin * (self.re1 - self.re0), margin * (self.im1 - self.im0)
-        return (self.re0 - dr < z.real < self.re1 + dr) and (self.im0 - di < z.imag < self.im1 + di)
-
-
-def _estimates(box, found):
-    """Zeros not yet found from the moments deflated by the found ones (Newton's identities)."""
-    inside = [r for r in found if box.contains(r)]
-    m = box.count - len(inside)
-    if m <= 0:
-        return []
-    s = [box.moment(p) - sum(r ** p for r in inside) for p in range(1, m + 1)]
-    e = [1.0 + 0j]
-    for j in range(1, m + 1):                                     # elementary symmetric functions
-        e.append(sum((-1) ** (i - 1) * e[j - i] * s[i - 1] for i in range(1, j + 1)) / j)
-    coeffs = [(-1) ** j * e[j] for j in range(m + 1)]
-    return list(np.roots(coeffs)) if m > 1 else [s[0]]
-
-
-def _polish(func, z, found, scale, *, tol=1e-13, maxiter=60):
-    """Secant iteration on log f deflated by the found zeros; None if it does not converge."""
-    def g(w):
-        v = func(w)
-        for r in found:
-            v -= np.log(complex(w - r))
-        return v
-
-    # iterates that fall below the real axis are reflected: there f has the zeros of the time-reversed
-    # problem (decaying modes, at conj(omega)), which must not attract the search
-    z0 = complex(z.real, abs(z.imag))
-    z1 = z0 + 1e-4 * scale * (1 + 0.5j)
-    g0, g1 = g(z0), g(z1)
-    for _ in range(maxiter):
-        if not np.isfinite(g1):
-            return z1
-        with np.errstate(over="ignore", invalid="ignore"):
-            q = np.exp(g0 - g1)
-        if not np.isfinite(q):
-            return z1
-        if q == 1:
-            return None
-        step = (z1 - z0) / (1 - q)
-        if not np.isfinite(step) or abs(step) > 10 * scale:
-            return None
-        z0, g0 = z1, g1
-        z1 = z1 - step
-        if z1.imag <= 0:
-            z1 = complex(z1.real, max(-z1.imag, 1e-3 * abs(z0.imag)))
-        g1 = g(z1)
-        if abs(step) < tol * scale:
-            return z1
-    return None
-
-
-def _search(func, box0, scale, *, max_boxes=64):
-    """Every zero in box0: moments + deflated polishing, bisecting boxes where that falls short."""
-    found = []
-    pending = [box0]
-    boxes = 0
-    while pending:
-        box = pending.pop()
-        boxes += 1
-        if box.count <= 0:
-            continue
-        for est in _estimates(box, found):
-            r = _polish(func, est, found, scale)
-            if r is not None and box.contains(r) and all(abs(r - q) > 1e-8 * scale for q in found):
-                found.append(r)
-        if sum(box.contains(r) for r in found) >= box.count:
-            continue
-        if boxes >= max_boxes:
-            break
-        # bisect the longer side (relative to the box's aspect), at a slightly off-centre line
-        if (box.re1 - box.re0) >= (box.im1 - box.im0):
-            cut = box.re0 + 0.4987 * (box.re1 - box.re0)
-            halves = [(box.re0, cut, box.im0, box.im1), (cut, box.re1, box.im0, box.im1)]
-        else:
-            cut = box.im0 + 0.4987 * (box.im1 - box.im0)
-            halves = [(box.re0, box.re1, box.im0, cut), (box.re0, box.re1, cut, box.im1)]
-        for h in halves:
-            pending.append(_make_box(func, *h))
-    return found, boxes
-
-
-def _make_box(func, re0, re1, im0, im1):
-    """A _Box; edges that pass through a zero are moved by a small fraction and tried again."""
-    for attempt in range(6):
-        try:
-            box = _Box(func, re0, re1, im0, im1)
-        except _Unresolved as exc:
-            z = exc.args[0]
-            # move the edge nearest to the offending point outwards by 1% of the box
-            dists = [abs(z.real - re0), abs(z.real - re1), abs(z.imag - im0), abs(z.imag - im1)]
-            j = int(np.argmin(dists))
-            dr, di = 0.01 * (re1 - re0), 0.01 * (im1 - im0)
-            if j == 0:
-                re0 -= dr
-            elif j == 1:
-                re1 += dr
-            elif j == 2:
-                im0 = im0 - di if im0 - di > 0 else 0.5 * im0
-            else:
-                im1 += di
-            continue
-        if box.winding_error < 0.05:
-            return box
-        im1 *= 1.01
-    raise ScatteringError(f"the argument principle on the box Re omega in [{re0:.4g}, {re1:.4g}], Im omega in "
-                          f"[{im0:.4g}, {im1:.4g}] did not give an integer count; change the box "
-                          f"(omega_max=, im_min=, im_max=) or the resolution (points=)")
-
-
 def cavity_cutoff(model, window=None, *, samples=33):
     """Largest local cut-off frequency of the dispersion relation over the window, or None.
 
     For a horizon pair this is the cut-off of the deepest point of the cavity
     (the unstable modes have ``0 < Re omega`` below it).  A model built by
     :func:`contourkit.catalogue.horizon_pair` carries it as
-    ``cavity_omega_max``, which is used when present.
+    ``cavity_omega_max``, which is used when present; otherwise the local
+    cut-offs (:func:`contourkit.cutoff.cutoffs` of ``D(omega, k; x)`` at fixed
+    x) are sampled at ``samples`` points and the largest is refined by a
+    bounded scalar maximisation.
 
     Examples
     --------
@@ -503,14 +333,24 @@ def cavity_cutoff(model, window=None, *, samples=33):
     if known is not None:
         return float(known)
     import sympy as sp
+    from scipy.optimize import minimize_scalar
     a, b = _window(model, window)
-    best = None
-    for x0 in np.linspace(a, b, samples):
-        D = model.dispersion.subs(X, sp.Float(float(x0), 20))
-        cs = cutoffs(sp.expand(sp.N(D, 20)))
-        if cs and (best is None or cs[0].omega > best):
-            best = cs[0].omega
-    return best
+
+    def local(x0):
+        D = sp.expand(sp.N(model.dispersion.subs(X, sp.Float(float(x0), 20)), 20))
+        D = D.xreplace({f: sp.Rational(str(f)) for f in D.atoms(sp.Float)})   # exact: sympy's discriminant
+        cs = cutoffs(D)
+        return cs[0].omega if cs else 0.0
+
+    xs = np.linspace(a, b, samples)
+    vals = np.array([local(x0) for x0 in xs])
+    if not np.any(vals > 0):
+        return None
+    i = int(np.argmax(vals))
+    lo, hi = xs[max(i - 1, 0)], xs[min(i + 1, samples - 1)]
+    res = minimize_scalar(lambda x0: -local(x0), bounds=(lo, hi), method="bounded",
+                          options={"xatol": 1e-6 * (b - a)})
+    return float(max(vals[i], -res.fun))
 
 
 def _number(name, v, *, positive=False, allow_none=True):
@@ -569,8 +409,9 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
     InputError
         Bad box, window, points or step; a profile without uniform ends.
     ScatteringError
-        A singular mode equation (vanishing leading coefficient), or a box
-        whose boundary count cannot be made an integer.
+        A singular mode equation (vanishing leading coefficient).
+    AccuracyError
+        A box whose boundary count cannot be made an integer.
 
     References
     ----------
@@ -632,14 +473,14 @@ def _unstable(model, a, b, wmax, re_min, im_min, im_max, points, step, tol):
     nodes, kmax = _nodes(model, wmax, a, b, step)
     K = max(kmax, 1e-3)
     coarse = _Matching(model, a, b, nodes, points, K)
-    box = _make_box(coarse.logf, re_min, wmax, im_min, im_max)
-    found, boxes = _search(coarse.logf, box, wmax)
+    box = make_box(coarse.logf, re_min, wmax, im_min, im_max)
+    found, boxes = search(coarse.logf, box, wmax)
     middle = _Matching(model, a, b, nodes, points + 8, K)
     fine = _Matching(model, a, b, nodes, points + 16, K)
     modes, mirrors = [], 0
     for r in found:
-        r1 = _polish(middle.logf, r, [], wmax)
-        r2 = None if r1 is None else _polish(fine.logf, r1, [], wmax)
+        r1 = polish(middle.logf, r, [], wmax)
+        r2 = None if r1 is None else polish(fine.logf, r1, [], wmax)
         if r2 is None:
             r2, err = r, math.inf
         else:

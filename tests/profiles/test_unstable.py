@@ -181,3 +181,18 @@ def test_complex_scatter_pseudo_unitarity_continued():
 def test_complex_scatter_refusals(omega):
     with pytest.raises(errors.InputError, match="Im omega|Re omega"):
         scatter(_pair(2.5), omega)
+
+
+def test_cavity_cutoff_of_a_general_model():
+    # the same flow built directly (no cavity_omega_max attribute): the largest local cut-off is that
+    # of the deepest point, Lambda (u - s) sqrt(s^2 - 1), s = (u + sqrt(u^2 + 8))/4 (Macher and
+    # Parentani 2009; REFERENCES.md), u = 1 + D tanh^2(kappa L/D)
+    import sympy as sp
+    from contourkit.horizon import HorizonModel
+    w, k, x = sp.symbols("omega k x")
+    L = 2.5
+    v = -1 + sp.Rational(1, 2) * sp.tanh((x - L) / 2) * sp.tanh((x + L) / 2)
+    m = HorizonModel.from_dispersion((w - v * k) ** 2 - k ** 2 - k ** 4, omega=w, k=k, x=x, horizon=L)
+    u = 1 + D * math.tanh(KAPPA * L / D) ** 2
+    s = (u + math.sqrt(u ** 2 + 8)) / 4
+    assert cavity_cutoff(m) == pytest.approx(LAMBDA * (u - s) * math.sqrt(s ** 2 - 1), rel=1e-8)
