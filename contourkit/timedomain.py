@@ -278,6 +278,9 @@ def evolve(model, *, t_max, dx=None, dt=None, window=None, layer=200.0, sigma_ma
     -------
     (times, samples, info)
     """
+    if not all(hasattr(model, a) for a in ("g", "dispersion", "horizon", "order", "x")):
+        raise InputError(f"expected a HorizonModel (e.g. contourkit.catalogue.horizon_pair(...)), got "
+                         f"{type(model).__name__}")
     t_max = _positive("t_max", t_max)
     dt = 0.5 if dt is None else _positive("dt", dt)
     layer = _positive("layer", layer)

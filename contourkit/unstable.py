@@ -353,6 +353,12 @@ def cavity_cutoff(model, window=None, *, samples=33):
     return float(max(vals[i], -res.fun))
 
 
+def _check_model(model):
+    if not all(hasattr(model, a) for a in ("g", "dispersion", "horizon", "order", "x")):
+        raise InputError(f"expected a HorizonModel (e.g. contourkit.catalogue.horizon_pair(...)), got "
+                         f"{type(model).__name__}")
+
+
 def _number(name, v, *, positive=False, allow_none=True):
     if v is None and allow_none:
         return None
@@ -427,6 +433,7 @@ def unstable_modes(model, *, omega_max=None, im_min=None, im_max=None, re_min=No
     True
     """
     from .planewaves import default_window, deviation
+    _check_model(model)
     for side in ("exterior", "interior"):
         asymptotic_dispersion(model, side)
     wmax = _number("omega_max", omega_max, positive=True)

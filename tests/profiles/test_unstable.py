@@ -157,30 +157,14 @@ def test_bad_options(kw, match):
 
 
 def test_refusals():
+    with pytest.raises(errors.InputError, match="HorizonModel"):
+        unstable_modes("not a model")
     with pytest.raises(errors.InputError, match="not uniform"):
         unstable_modes(quartic_flow(kappa=0.05, Lambda=2.5), omega_max=0.1)     # linear profile
     with pytest.raises(errors.ScatteringError, match="leading coefficient"):
         unstable_modes(nondispersive_flow(kappa=0.05, D=0.5), omega_max=0.1)
     with pytest.raises(errors.InputError, match="not uniform at the interior window end"):
         unstable_modes(_pair(2.5), window=(-10.0, 40.0))
-
-
-def test_complex_scatter_pseudo_unitarity_continued():
-    # S(conj w)^dagger eta S(w) = eta holds off the real axis (continuation of pseudo-unitarity,
-    # no source needed); the real-frequency result is unchanged by the continuation code path
-    m = _pair(2.5)
-    r = scatter(m, 0.05 + 0.002j)
-    assert r.unitarity_residual <= 1e-9 and r.effective_temperature is None
-    assert "analytic continuation" in r.message
-    real = scatter(m, 0.05)
-    near = scatter(m, 0.05 + 1e-9j)
-    assert np.max(np.abs(near.S - real.S)) < 1e-7
-
-
-@pytest.mark.parametrize("omega", [0.05 + 0.1j, -0.05 + 0.001j])
-def test_complex_scatter_refusals(omega):
-    with pytest.raises(errors.InputError, match="Im omega|Re omega"):
-        scatter(_pair(2.5), omega)
 
 
 def test_cavity_cutoff_of_a_general_model():
