@@ -16,6 +16,7 @@ References
 import sympy as sp
 
 from ._sym import exact
+from .cutoff import omega_max_uniform
 from .errors import InputError
 from .horizon import HorizonModel
 
@@ -298,7 +299,6 @@ def horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=5.0, branch="superluminal"):
     m = HorizonModel.from_dispersion(Dfun, omega=_w, k=_k, x=_x, horizon=float(L),
                                      name="superluminal horizon pair",
                                      description=f"(omega - v k)^2 = k^2 (1 + k^2/Lambda^2), v = {v}")
-    from .cutoff import omega_max_uniform
     m.branch = "superluminal"
     m.Lambda = Lambda
     m.flow_D = Dh

@@ -527,3 +527,19 @@ def _ratio(S, in_modes, out_modes, fig):
     if S is None or fig["hawking_index"] is None:
         return fig["thermal_ratio"]
     return hawking_figures(S, in_modes, out_modes, 1.0, 1.0)["thermal_ratio"]
+
+
+def unstable_modes(model, **options):
+    """Every complex omega with Im omega > 0 and no incoming wave: see :func:`contourkit.unstable.unstable_modes`.
+
+    The public entry ``ck.direct.unstable_modes(model)`` (DESIGN.md); the search
+    lives in its own module (same layer), imported on first use.
+
+    Examples
+    --------
+    >>> from contourkit.catalogue import horizon_pair
+    >>> len(unstable_modes(horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=1.0)))
+    0
+    """
+    from .unstable import unstable_modes as search
+    return search(model, **options)

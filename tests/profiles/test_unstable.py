@@ -80,6 +80,9 @@ def test_steps_are_monotone_and_zero_first():
     counts = [len(_modes(L)) for L, _ in [(1.0, 0), (2.5, 1)]]
     assert counts[0] == 0 and counts[1] >= 1
     assert "no unstable mode" in _modes(1.0).message and _modes(1.0).dominant is None
+    # the public entry of DESIGN.md
+    import contourkit as ck
+    assert len(ck.direct.unstable_modes(_pair(1.0))) == 0
 
 
 def test_threshold_at_negative_energy_onset():
