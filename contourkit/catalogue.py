@@ -16,6 +16,7 @@ References
 import sympy as sp
 
 from .symbolic._sym import exact
+from .profiles.cutoff import omega_max_uniform
 from .errors import InputError
 from .symbolic.horizon import HorizonModel
 
@@ -209,4 +210,100 @@ def dielectric_front(u=0.6, resonances=((1.2, 1.0), (5.2, 3.0)), *, modulated=0,
     m.front_speed = u
     m.resonances = res
     m.low_frequency_index = float(sp.sqrt(n0sq))
+    return m
+
+
+def horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=5.0, branch="superluminal"):
+    """A black-hole and a white-hole horizon a distance 2L apart: a supersonic cavity.
+
+    The flow (towards -x, c = 1) is
+
+        v(x) = -1 + D tanh(kappa (x - L)/D) tanh(kappa (x + L)/D),
+
+    uniform and subsonic outside, ``v -> -1 + D`` as ``x -> +-infinity``, and
+    supersonic inside the cavity ``|x| < L``, with ``v(0) = -1 - D tanh^2(kappa L/D)``.
+    The horizons (``v = -1``) are exactly at ``x = +L`` (black hole: the fluid
+    enters the supersonic region there) and ``x = -L`` (white hole).  The
+    dispersion function is
+
+        D(omega, k; x) = (omega - v(x) k)^2 - k^2 - s k^4/Lambda^2,
+
+    with s = +1 (superluminal), quantised in symmetric (Weyl) order like
+    :func:`quartic_flow`.
+
+    Parameters
+    ----------
+    kappa : float
+        Steepness of each tanh step, > 0.  The surface gravity of both horizons
+        is ``kappa tanh(2 kappa L/D)`` (-> kappa for ``L >> D/kappa``).
+    Lambda : float
+        Dispersive wavenumber scale, > 0.
+    D : float
+        Step height, 0 < D < 1 (D >= 1 would stop or reverse the outer flow).
+    L : float
+        Half the distance between the horizons, > 0.
+    branch : {"superluminal"}
+        Only superluminal dispersion makes the cavity a laser (negative-norm
+        modes are trapped between the horizons and grow).  "subluminal" is
+        refused: there the dispersive modes escape through the subsonic
+        outer regions and the cavity has no trapped negative-norm band.
+
+    Returns
+    -------
+    HorizonModel
+        ``horizon = L`` (the black-hole horizon, with the exterior x > L, as
+        in every contourkit model), ``kappa`` as above, and the extra
+        attributes ``branch``, ``Lambda``, ``flow_D``, ``L``, ``white_horizon = -L``,
+        ``cavity_speed = 1 + D tanh^2(kappa L/D)`` and ``cavity_omega_max``:
+        the cut-off of a uniform flow at the cavity speed (the unstable modes
+        of the laser have ``0 < Re omega < cavity_omega_max``).
+
+    Notes
+    -----
+    Regime: for ``0 < omega < cavity_omega_max`` the cavity holds four real
+    roots, two of them negative-norm dispersive modes that bounce between the
+    horizons; they make the discrete complex frequencies with Im omega > 0
+    (black-hole laser), whose number grows with L [1]_, [2]_.  The outer
+    regions (speed 1 - D) have no cut-off, so ``model.omega_max`` is None.
+    For small L the cavity is shallow (depth ``D tanh^2(kappa L/D)``).
+
+    References
+    ----------
+    .. [1] S. Corley, T. Jacobson, Phys. Rev. D 59 (1999) 124011.
+    .. [2] A. Coutant, R. Parentani, Phys. Rev. D 81 (2010) 084042.
+
+    Examples
+    --------
+    >>> m = horizon_pair(kappa=0.25, Lambda=1.0, D=0.5, L=5.0)
+    >>> m.horizon, m.white_horizon
+    (5.0, -5.0)
+    >>> round(m.kappa, 6), round(m.cavity_speed, 6)
+    (0.249977, 1.486704)
+    """
+    kappa = _positive("kappa", kappa)
+    Lambda = _positive("Lambda", Lambda)
+    L = _positive("L", L)
+    Dh = _positive("D", D)
+    if Dh >= 1:
+        raise InputError(f"D = {Dh} >= 1 makes the outer flow speed 1 - D vanish or reverse; take 0 < D < 1 "
+                         f"(the cavity speed is 1 + D tanh^2(kappa L/D))")
+    if branch == "subluminal":
+        raise InputError("horizon_pair supports branch='superluminal' only: with subluminal dispersion the "
+                         "supersonic cavity traps no negative-norm band (the dispersive modes leave through the "
+                         "subsonic outer regions), so it is not a laser; use quartic_flow(branch='subluminal', "
+                         "hole=...) for single horizons")
+    if branch != "superluminal":
+        raise InputError(f"branch must be 'superluminal', got {branch!r}")
+    v = -1 + Dh * sp.tanh(kappa * (_x - L) / Dh) * sp.tanh(kappa * (_x + L) / Dh)
+    Dfun = (_w - v * _k) ** 2 - _k ** 2 - _k ** 4 / Lambda ** 2
+    m = HorizonModel.from_dispersion(Dfun, omega=_w, k=_k, x=_x, horizon=float(L),
+                                     name="superluminal horizon pair",
+                                     description=f"(omega - v k)^2 = k^2 (1 + k^2/Lambda^2), v = {v}")
+    m.branch = "superluminal"
+    m.Lambda = Lambda
+    m.flow_D = Dh
+    m.L = L
+    m.white_horizon = -float(L)
+    m.cavity_speed = float(1 + Dh * sp.tanh(kappa * L / Dh) ** 2)
+    m.cavity_omega_max = omega_max_uniform(m.cavity_speed, float(Lambda), "superluminal")
     return m

@@ -182,3 +182,37 @@ def test_dielectric_front_contour_agrees_with_direct():
         assert abs(c.effective_temperature / d.effective_temperature - 1) < 0.01
         assert sorted((md.side, md.norm) for md in c.in_modes) == sorted((md.side, md.norm) for md in d.in_modes)
         assert c.unitarity_residual <= 1e-10 and d.unitarity_residual < 1e-8
+
+
+def test_horizon_pair_geometry():
+    # v = -1 + D tanh(kappa (x - L)/D) tanh(kappa (x + L)/D): v(+-L) = -1 exactly; the slope at the
+    # black-hole horizon x = L is d/dx [D tanh(kappa (x-L)/D)] tanh(2 kappa L/D) = kappa tanh(2 kappa L/D)
+    # (analytic; kappa is the flow gradient at the sonic point, Unruh 1981)
+    kappa, Lam, D, L = 0.25, 1.0, 0.5, 5.0
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")          # horizon= is given: no several-horizons warning
+        m = ck.catalogue.horizon_pair(kappa=kappa, Lambda=Lam, D=D, L=L)
+    assert m.horizon == L and m.white_horizon == -L
+    assert abs(m.kappa - kappa * math.tanh(2 * kappa * L / D)) < 1e-13
+    x = sp.Symbol("x")
+    v = -1 + sp.Rational(1, 2) * sp.tanh(x / 2 - sp.Rational(5, 2)) * sp.tanh(x / 2 + sp.Rational(5, 2))
+    w, k = sp.Symbol("omega"), sp.Symbol("k")
+    # the model's dispersion is (omega - v k)^2 - k^2 - k^4/Lambda^2 with this v
+    assert sp.simplify(sp.expand(m.dispersion - ((w - v * k) ** 2 - k ** 2 - k ** 4))) == 0
+    u = 1 + D * math.tanh(kappa * L / D) ** 2
+    assert abs(m.cavity_speed - u) < 1e-14
+    # cavity cut-off of superluminal quartic dispersion: Lambda (u - s) sqrt(s^2 - 1),
+    # s = (u + sqrt(u^2 + 8))/4 (Macher and Parentani 2009; REFERENCES.md)
+    s = (u + math.sqrt(u ** 2 + 8)) / 4
+    assert abs(m.cavity_omega_max - Lam * (u - s) * math.sqrt(s ** 2 - 1)) < 1e-12
+    # the outer regions are subsonic (speed 1 - D): no cut-off there
+    assert m.omega_max is None
+
+
+@pytest.mark.parametrize("kw, match", [
+    (dict(D=1.0), "D = 1"), (dict(D=1.5), "D"), (dict(L=-1.0), "L"), (dict(L=0.0), "L"),
+    (dict(kappa=float("nan")), "kappa"), (dict(Lambda=0.0), "Lambda"),
+    (dict(branch="subluminal"), "superluminal"), (dict(branch="sideways"), "branch")])
+def test_horizon_pair_bad_parameters(kw, match):
+    with pytest.raises(ck.InputError, match=match):
+        ck.catalogue.horizon_pair(**kw)

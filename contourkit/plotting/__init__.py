@@ -13,13 +13,18 @@ journal style (:data:`JOURNAL_RC`: 3.4 in wide, 8 pt text) through
   labelled roots at one frequency; for a ModeEquation the curve
   ``sigma0(k) + x sigma1(k) = 0`` in the (k, x) plane;
 * :func:`spectrum`: ``|beta|^2`` against the thermal curve and
-  ``T_eff/T_H``, contour and direct results side by side.
+  ``T_eff/T_H``, contour and direct results side by side;
+* :func:`mode_plane`, :func:`mode_profile`, :func:`modes_figure`: complex
+  frequencies found by a mode search (marker size by residual) and the
+  profile of one mode.
 """
 from ._dispersion import dispersion
 from ._landscape import auto_window, landscape
+from ._modes import mode_plane, mode_profile, modes_figure
 from ._spectrum import spectrum
 from ._style import (COLUMN_WIDTH, JOURNAL_RC, MARKERS, NORM_LINESTYLE, PALETTE, journal_style, save,
                      style_rc)
 
 __all__ = ["landscape", "dispersion", "spectrum", "save", "journal_style", "style_rc", "auto_window",
+           "mode_plane", "mode_profile", "modes_figure",
            "JOURNAL_RC", "PALETTE", "MARKERS", "NORM_LINESTYLE", "COLUMN_WIDTH"]

@@ -61,21 +61,20 @@ True
 """
 import math
 import warnings
-import weakref
 
 import numpy as np
 import scipy.sparse as sps
 from threadpoolctl import threadpool_limits
 import scipy.sparse.linalg as spla
-import sympy as sp
 
 from ..scattering.bogoliubov import hawking_figures
 from .cutoff import model_cutoffs
-from ..errors import AccuracyWarning, HorizonError, InputError, ScatteringError
-from .planewaves import (OMEGA, X, asymptotic_dispersion, default_window, deviation, local_modes,
-                         max_root_modulus)
-from ..scattering.results import ScatteringResult, pseudo_unitarity_residual
-from ..symbolic.symmetric import from_symmetric
+from ..errors import AccuracyWarning, InputError, ScatteringError
+from .planewaves import (asymptotic_dispersion, default_window, deviation, dispersion_callables, local_modes,
+                         local_roots)
+from ..scattering.results import Mode, ScatteringResult, pseudo_unitarity_residual
+from .collocation import _nodes, _transfer, _window, left_form
+from .unstable import unstable_modes  # noqa: F401  (ck.direct.unstable_modes, DESIGN.md)
 
 #: BLAS threads of the dense solves: the matrices are small (at most a few hundred rows), for which
 #: one thread is fastest, and a thread per core slows down badly when other programs run (common practice)
@@ -83,120 +82,77 @@ BLAS_THREADS = 1
 #: relative distance from a cut-off inside which scatter() refuses to work
 CUTOFF_GUARD = 1e-9
 
-_left_cache = weakref.WeakKeyDictionary()
+#: largest |Im omega| / Re omega for which scatter() continues the real-frequency mode labels
+COMPLEX_LIMIT = 0.5
+
 
 
 def _check_omega(omega):
+    """A real omega > 0 (float), or a complex omega with Re omega > 0 and a small Im omega (complex)."""
+    if isinstance(omega, (complex, np.complexfloating)) and complex(omega).imag != 0:
+        w = complex(omega)
+        if not (math.isfinite(w.real) and math.isfinite(w.imag)) or w.real <= 0:
+            raise InputError(f"omega must be a positive real number, or complex with Re omega > 0, got {omega!r}; "
+                             f"the in/out labels of a complex frequency are continued from real Re omega > 0 "
+                             f"(for modes with Re omega = 0 use contourkit.unstable.unstable_modes)")
+        if abs(w.imag) > COMPLEX_LIMIT * w.real:
+            raise InputError(f"|Im omega| = {abs(w.imag):g} is more than {COMPLEX_LIMIT:g} Re omega: scatter() "
+                             f"continues the in/out labels from the real frequency Re omega only for small "
+                             f"|Im omega|; use contourkit.unstable.unstable_modes to find modes further from "
+                             f"the real axis")
+        return w
     try:
-        w = float(omega)
+        w = float(omega.real if isinstance(omega, (complex, np.complexfloating)) else omega)
     except (TypeError, ValueError):
         raise InputError(f"omega must be a positive real number, got {omega!r}")
-    if isinstance(omega, complex) or not math.isfinite(w) or w <= 0:
+    if not math.isfinite(w) or w <= 0:
         raise InputError(f"omega must be a positive finite real number, got {omega!r}; the direct solver "
-                         f"works at one real frequency omega > 0")
+                         f"works at one frequency with Re omega > 0")
     return w
 
 
-def left_form(model):
-    """numpy callable ``(x, omega) -> array (order+1, len(x))`` of the left-form coefficients c_n.
+def _continued_modes(model, w, x, side, *, steps=16):
+    """Plane-wave modes at complex w, each root continued from its labelled root at Re w.
 
-    The full symmetric operator ``sum_m S_m[g_m]`` expanded with x on the
-    left (:func:`contourkit.symbolic.symmetric.from_symmetric`), lambdified once per model.
+    The roots are followed along the straight path from Re w to w; a step in
+    which some root moves by more than a quarter of its distance to the other
+    roots is halved (down to 1/1024 of the path), else the labels are refused.
+    Each mode keeps the side, direction, norm and kind of its real-frequency
+    root; propagating modes get the analytic continuation of the unit-flux
+    amplitude, ``(2 pi sigma dD/dk)^(-1/2)`` with sigma the sign of dD/dk at Re w.
     """
-    try:
-        return _left_cache[model]
-    except (KeyError, TypeError):
-        pass
-    cs = from_symmetric(model.g, model.x)
-    fs = [sp.lambdify((X, OMEGA), c, "numpy") for c in cs]
-
-    def coeffs(x, omega):
-        x = np.asarray(x, dtype=float)
-        return np.array([np.broadcast_to(np.asarray(f(x, omega), dtype=complex), x.shape) for f in fs])
-    try:
-        _left_cache[model] = coeffs
-    except TypeError:  # pragma: no cover
-        pass
-    return coeffs
-
-
-def _window(model, window):
-    xh = float(model.horizon)
-    if window is None:
-        return default_window(model)
-    try:
-        a, b = (float(v) for v in window)
-    except (TypeError, ValueError):
-        raise InputError(f"window must be a pair of numbers (a, b), got {window!r}")
-    if not (math.isfinite(a) and math.isfinite(b)) or not a < b:
-        raise InputError(f"window must be two finite numbers a < b, got {window!r}")
-    if not a < xh < b:
-        raise HorizonError(f"the window ({a:g}, {b:g}) does not contain the horizon at x = {xh:g}; the direct "
-                           f"solver integrates across the horizon: choose a < {xh:g} < b, or window=None for "
-                           f"the automatic window {tuple(round(v, 1) for v in default_window(model))}")
-    return a, b
-
-
-def _cheb(N):
-    """Chebyshev points cos(pi i/(N-1)) on [-1, 1] (from +1 down) and the differentiation matrix."""
-    n = N - 1
-    t = np.cos(np.pi * np.arange(N) / n)
-    c = np.ones(N)
-    c[0] = c[-1] = 2.0
-    c *= (-1.0) ** np.arange(N)
-    dT = t[:, None] - t[None, :]
-    Dm = np.outer(c, 1.0 / c) / (dT + np.eye(N))
-    Dm -= np.diag(Dm.sum(axis=1))
-    return t, Dm
-
-
-def _nodes(model, omega, a, b, step):
-    """Segment ends with ``h * max|k| <= step`` (max over the neighbourhood of each segment)."""
-    xs = np.linspace(a, b, 801)
-    kmax = max_root_modulus(model, omega, xs)
-    kfloor = step / min(10.0, (b - a) / 16)
-    dx = xs[1] - xs[0]
-    width = max(1, int(math.ceil(10.0 / dx)))
-    env = np.array([kmax[max(0, i - width):i + width + 1].max() for i in range(len(xs))])
-    env = np.maximum(env, kfloor)
-    nodes = [a]
-    while nodes[-1] < b:
-        nodes.append(nodes[-1] + step / float(np.interp(nodes[-1], xs, env)))
-    nodes = np.array(nodes)
-    return a + (nodes - a) * (b - a) / (nodes[-1] - a), float(kmax.max())
-
-
-def _transfer(coeffs, omega, nodes, N, K):
-    """Transfer matrices Phi_s (scaled state, identity at the left end of segment s)."""
-    t, Dt = _cheb(N)
-    n = coeffs(np.array([nodes[0]]), omega).shape[0] - 1
-    h = np.diff(nodes)
-    M = len(h)
-    xi = nodes[:-1, None] + h[:, None] * (1 - t[None, :]) / 2          # (M, N)
-    c = coeffs(xi.ravel(), omega).reshape(n + 1, M, N)
-    lead = c[n]
-    A = np.zeros((M, N, n, n), dtype=complex)
-    for j in range(n - 1):
-        A[:, :, j, j + 1] = K
-    for j in range(n):
-        A[:, :, n - 1, j] = -(c[j] / lead) * K ** (j - n + 1)
-    out = np.empty((M, n, n), dtype=complex)
-    I_n = np.eye(n)
-    rhs = np.zeros((N * n, n), dtype=complex)
-    rhs[:n] = I_n
-    chunk = max(1, 4_000_000 // (N * n) ** 2)
-    for s0 in range(0, M, chunk):
-        sl = slice(s0, min(M, s0 + chunk))
-        m = len(h[sl])
-        Dx = Dt[None] * (-2.0 / h[sl])[:, None, None]                  # (m, N, N)
-        big = np.einsum("sij,cd->sicjd", Dx, I_n).astype(complex)     # (m, N, n, N, n)
-        idx = np.arange(N)
-        big[:, idx, :, idx, :] -= A[sl].transpose(1, 0, 2, 3)
-        big = big.reshape(m, N * n, N * n)
-        big[:, :n, :] = 0.0
-        big[:, np.arange(n), np.arange(n)] = 1.0
-        Y = np.linalg.solve(big, np.broadcast_to(rhs, (m, N * n, n)))
-        out[sl] = Y[:, (N - 1) * n:, :]
+    base = local_modes(model, w.real, x, side)
+    ks = np.array([md.k for md in base], dtype=complex)
+    t, dt_ = 0.0, 1.0 / steps
+    while t < 1.0:
+        h = min(dt_, 1.0 - t)
+        roots = local_roots(model, complex(w.real, w.imag * (t + h)), x)
+        d = np.abs(ks[:, None] - roots[None, :])
+        j = np.argmin(d, axis=1)
+        sep = np.abs(roots[:, None] - roots[None, :]) + np.diag(np.full(len(roots), np.inf))
+        moved = d[np.arange(len(ks)), j]
+        if len(set(j.tolist())) == len(ks) and np.all(moved <= 0.25 * sep.min(axis=1)[j]):
+            ks, t = roots[j], t + h
+            continue
+        if h < 1.0 / 1024:
+            raise InputError(f"the plane-wave roots at x = {x:g} come too close between Re omega and omega = {w:g} "
+                             f"for the in/out labels to continue from the real axis; take a smaller |Im omega| "
+                             f"or use contourkit.unstable.unstable_modes")
+        dt_ = h / 2
+    cD, _ = dispersion_callables(model)
+    c = np.array([complex(f(w, x)) for f in cD])
+    out = []
+    for md, k in zip(base, ks):
+        data = dict(md.data)
+        if md.kind == "propagating":
+            Dk = complex(sum(n * c[n] * k ** (n - 1) for n in range(1, len(c))))
+            data["amplitude"] = 1.0 / np.sqrt(2 * math.pi * math.copysign(1.0, md.data["dD_dk"]) * Dk)
+            data["dD_dk"] = Dk
+        elif (k.imag < 0) != (md.k.imag < 0):
+            raise InputError(f"the evanescent root at x = {x:g} crosses the real k axis between Re omega and "
+                             f"omega = {w:g}; take a smaller |Im omega|")
+        out.append(Mode(side=md.side, direction=md.direction, norm=md.norm, kind=md.kind, k=complex(k),
+                        group_velocity=md.group_velocity, origin=md.origin, x=md.x, data=data))
     return out
 
 
@@ -207,7 +163,8 @@ def _mode_columns(modes, xe, xh, K):
         k = md.k
         vec = (1j * k / K) ** np.arange(n)
         if md.kind == "propagating":
-            vec = vec * md.data["amplitude"] * np.exp(1j * k.real * (xe - xh))
+            kk = k.real if k.imag == 0 else k          # complex k: a label continued to complex omega
+            vec = vec * md.data["amplitude"] * np.exp(1j * kk * (xe - xh))
         E[:, j] = vec
     return E
 
@@ -265,8 +222,20 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         A model whose profile joins two uniform regions (e.g.
         ``quartic_flow(..., D=0.5)``) and whose leading coefficient does not
         vanish in the window (a dispersive model).
-    omega : float
-        Frequency, > 0, not within 1e-9 (relative) of a cut-off.
+    omega : float or complex
+        Frequency, > 0, not within 1e-9 (relative) of a cut-off.  A complex
+        omega with ``Re omega > 0`` and ``|Im omega| <= 0.5 Re omega`` gives the
+        analytic continuation of the S-matrix: every plane-wave root at the
+        window ends is followed from ``Re omega`` to omega and keeps its
+        real-frequency label (in/out, norm, growing/decaying), the unit-flux
+        amplitudes are continued analytically, and the boundary conditions
+        are those of real omega (unit amplitude on one in-mode, none on the
+        others and on the growing modes).  The continuation is refused when
+        two roots come too close on the way.  Its poles in ``Im omega > 0``
+        are the unstable modes (:func:`contourkit.profiles.unstable.unstable_modes`);
+        ``unitarity_residual`` is then
+        ``max |S(conj omega)^dagger eta S(omega) - eta|`` (pseudo-unitarity
+        continued off the real axis) and ``effective_temperature`` is None.
     window : (float, float), optional
         Integration window ``(a, b)`` containing the horizon, with uniform ends.
         Default: ends where the profile is uniform to 1e-16 (relative).
@@ -308,6 +277,8 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     ['ext-in-', 'ext-in+', 'ext-in+']
     """
     w = _check_omega(omega)
+    cplx = isinstance(w, complex)
+    wr = w.real if cplx else w
     if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
         raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
     if not (isinstance(points, int) and points >= 8):
@@ -320,7 +291,7 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     for side in ("exterior", "interior"):
         asymptotic_dispersion(model, side)      # InputError for a profile without uniform regions
     for c in model_cutoffs(model):
-        if abs(w - c.omega) <= CUTOFF_GUARD * c.omega:
+        if abs(wr - c.omega) <= CUTOFF_GUARD * c.omega:
             raise InputError(f"omega = {w!r} is at the cut-off omega_max = {c.omega!r} ({c.side} region, within "
                              f"{CUTOFF_GUARD:g} relative): two modes merge there and their flux normalisation "
                              f"diverges; move omega away from the cut-off (e.g. by 1e-6 relative)")
@@ -345,8 +316,12 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
             f"the leading coefficient of the mode equation vanishes near x = {xbad:.4g} (a singular point, as "
             f"at the horizon of a non-dispersive flow); the direct solver integrates through the horizon and "
             f"needs a dispersive model (e.g. quartic_flow); use the contour method model.scatter(omega)")
-    mL = local_modes(model, w, a, "interior")
-    mR = local_modes(model, w, b, "exterior")
+    if cplx:
+        mL = _continued_modes(model, w, a, "interior")
+        mR = _continued_modes(model, w, b, "exterior")
+    else:
+        mL = local_modes(model, w, a, "interior")
+        mR = local_modes(model, w, b, "exterior")
     ends = mL + mR
     fixed_zero = [j for j, md in enumerate(ends) if md.kind == "growing"]
     in_idx = [j for j, md in enumerate(ends) if md.direction == "in"]
@@ -358,7 +333,7 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
             f"{[round(c.omega, 8) for c in model_cutoffs(model)]})")
     in_idx = sorted(in_idx, key=lambda j: (ends[j].side != "exterior", ends[j].k.real))
     out_idx = sorted(out_idx, key=lambda j: (ends[j].side != "exterior", ends[j].k.real))
-    nodes, kmax = _nodes(model, w, a, b, step)
+    nodes, kmax = _nodes(model, wr, a, b, step)
     K = max(kmax, 1e-3)
     EL = _mode_columns(mL, a, xh, K)
     ER = _mode_columns(mR, b, xh, K)
@@ -379,13 +354,31 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     out_modes = [ends[j] for j in out_idx]
     eta_in = [md.norm for md in in_modes]
     eta_out = [md.norm for md in out_modes]
-    resid = pseudo_unitarity_residual(S, eta_out, eta_in)
     message = f"{len(in_modes)} in-modes, {len(out_modes)} out-modes; window ({a:.6g}, {b:.6g})"
+    if cplx:
+        # analytic continuation of pseudo-unitarity: S(conj omega)^dagger eta S(omega) = eta
+        wc = w.conjugate()
+        ends_c = _continued_modes(model, wc, a, "interior") + _continued_modes(model, wc, b, "exterior")
+        Sc = _solve(_transfer(coeffs, wc, nodes, N, K), _mode_columns(ends_c[:n], a, xh, K),
+                    _mode_columns(ends_c[n:], b, xh, K), fixed_zero, in_idx)[out_idx, :]
+        resid = float(np.max(np.abs(Sc.conj().T @ np.diag(np.asarray(eta_out, float)) @ S - np.diag(
+            np.asarray(eta_in, float)))))
+        message += ("; complex omega: S is the analytic continuation of the real-frequency S-matrix (labels "
+                    "continued from Re omega; its poles in Im omega > 0 are the unstable modes, see "
+                    "contourkit.unstable.unstable_modes); unitarity_residual is max|S(conj omega)^dagger eta "
+                    "S(omega) - eta|; the thermal figures of a complex frequency are not a spectrum "
+                    "(effective_temperature None)")
+    else:
+        resid = pseudo_unitarity_residual(S, eta_out, eta_in)
+    cuts = model_cutoffs(model)
     try:
-        fig = hawking_figures(S, in_modes, out_modes, w, float(model.kappa))
-        if fig["occupation"] == 0.0:
+        fig = hawking_figures(S, in_modes, out_modes, wr, float(model.kappa))
+        if fig["occupation"] == 0.0 and cuts and wr > cuts[0].omega:
             message += ("; omega is above the cut-off omega_max: no in-mode of opposite norm to the Hawking "
                         "mode exists, so beta = 0 and thermal_ratio = 0 in the stationary picture")
+        elif fig["occupation"] == 0.0:
+            message += ("; every in-mode has the norm sign of the Hawking mode (no opposite-norm in-mode in "
+                        "the asymptotic regions), so beta = 0 and thermal_ratio = 0")
     except ScatteringError:
         fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
                    effective_temperature=0.0, hawking_temperature=float(model.kappa) / (2 * math.pi))
@@ -403,6 +396,8 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     if fig["thermal_ratio"] > 0 and ratio_err > 1e-2:
         message += (f"; the thermal ratio {fig['thermal_ratio']:.2e} is at the level of the S-matrix error "
                     f"{err:.1e}: only its order of magnitude is meaningful")
+    if cplx:
+        fig["effective_temperature"] = None
     success = err <= rtol
     if not success:
         warnings.warn(f"direct.scatter: resolution difference {err:.2e} > rtol = {rtol:g} at omega = {w:g} "

@@ -62,9 +62,45 @@ def _store(model):
         return {}
 
 
+def _tanh_limit(expr, sign):
+    """Exact limit of a polynomial in tanh(a x + b) terms (a != 0) as x -> sign*infinity, else None.
+
+    Each tanh tends to sign(a)*sign; a polynomial in them with x-free
+    coefficients is continuous there, so substitution gives the limit (fast
+    path: sympy's general limit is slow for products of tanh steps).
+    """
+    tanhs = [t for t in expr.atoms(sp.tanh) if t.has(X)]
+    if not tanhs:
+        return None
+    dummies = {t: sp.Dummy() for t in tanhs}
+    rest = expr.xreplace(dummies)
+    if rest.has(X):
+        return None
+    try:
+        sp.Poly(rest, *dummies.values())
+    except sp.PolynomialError:
+        return None
+    vals = {}
+    for t, d in dummies.items():
+        try:
+            arg = sp.Poly(t.args[0], X)
+        except sp.PolynomialError:
+            return None
+        if arg.degree() != 1:
+            return None
+        a = arg.coeff_monomial(X)
+        if not (a.is_real and a != 0):
+            return None
+        vals[d] = sign * (1 if a > 0 else -1)
+    return sp.expand(rest.xreplace(vals))
+
+
 @functools.lru_cache(maxsize=512)
 def _limit(expr, sign):
     """Limit of a sympy expression in x as x -> sign*infinity (None if not a finite real number)."""
+    fast = _tanh_limit(expr, sign)
+    if fast is not None and fast.is_number:
+        return fast
     try:
         val = sp.limit(expr, X, sign * sp.oo)
     except Exception:  # sympy raises many kinds of errors for limits it cannot do

@@ -81,7 +81,8 @@ class ScatteringResult:
         ``|beta/alpha|^2``.
     occupation : float
         ``|beta|^2``: the mean number of quanta in the Hawking out-mode.
-    effective_temperature : float
+    effective_temperature : float or None
+        (None for a complex omega: the continued S-matrix is not a spectrum)
         ``omega / ln(|alpha|^2/|beta|^2)``.
     temperature_ratio : float (property)
         ``effective_temperature / hawking_temperature``.
@@ -138,13 +139,22 @@ class ScatteringResult:
         return result_html(self)
 
     def as_row(self):
-        """A flat dict for tables (CSV/JSON)."""
-        T_ratio = self.effective_temperature / self.hawking_temperature if self.hawking_temperature else 0.0
-        return {"omega": float(self.omega), "occupation": float(self.occupation),
+        """A flat dict for tables (CSV/JSON).
+
+        For a complex omega (the continued S-matrix of ``direct.scatter``) the
+        row holds ``omega`` as a complex number and None for the temperatures.
+        """
+        if self.effective_temperature is None:
+            T_eff = T_ratio = None
+        else:
+            T_eff = float(self.effective_temperature)
+            T_ratio = float(T_eff / self.hawking_temperature) if self.hawking_temperature else 0.0
+        w = complex(self.omega) if isinstance(self.omega, complex) else float(self.omega)
+        return {"omega": w, "occupation": float(self.occupation),
                 "thermal_ratio": float(self.thermal_ratio),
-                "effective_temperature": float(self.effective_temperature),
+                "effective_temperature": T_eff,
                 "hawking_temperature": float(self.hawking_temperature),
-                "temperature_ratio": float(T_ratio),
+                "temperature_ratio": T_ratio,
                 "unitarity_residual": float(self.unitarity_residual),
                 "n_in": len(self.in_modes), "dps": self.dps if self.dps is not None else 16,
                 "error_estimate": float(self.error_estimate), "success": bool(self.success),
