@@ -93,6 +93,8 @@ def _sweep(args):
     """scatter() at increasing frequencies, following the traced geometry in omega where it can."""
     model, ws, digits, follow, progress = args
     from .sweep import Lost, family as family_of
+    from .oriented import canonical_and_map
+    model, to_user = canonical_and_map(model)
     family, state, out = None, None, []
 
     def fast(st, w):
@@ -126,7 +128,7 @@ def _sweep(args):
                     family = family_of(model)
                 except Lost:            # coefficients not polynomial in omega: trace every frequency
                     state = None
-        out.append(res)
+        out.append(to_user(res))
     return out
 
 
