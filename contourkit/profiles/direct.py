@@ -68,10 +68,10 @@ import scipy.sparse as sps
 import scipy.sparse.linalg as spla
 import sympy as sp
 
-from ..scattering.bogoliubov import hawking_figures
+from ..scattering.oriented import oriented_figures
 from .cutoff import model_cutoffs
 from ..errors import AccuracyWarning, HorizonError, InputError, ScatteringError
-from .planewaves import (OMEGA, X, asymptotic_dispersion, default_window, deviation, local_modes,
+from .planewaves import (OMEGA, X, asymptotic_dispersion, centre, default_window, deviation, local_modes,
                          max_root_modulus)
 from ..scattering.results import ScatteringResult, pseudo_unitarity_residual
 from ..symbolic.symmetric import from_symmetric
@@ -117,7 +117,7 @@ def left_form(model):
 
 
 def _window(model, window):
-    xh = float(model.horizon)
+    xh = centre(model)
     if window is None:
         return default_window(model)
     try:
@@ -126,7 +126,7 @@ def _window(model, window):
         raise InputError(f"window must be a pair of numbers (a, b), got {window!r}")
     if not (math.isfinite(a) and math.isfinite(b)) or not a < b:
         raise InputError(f"window must be two finite numbers a < b, got {window!r}")
-    if not a < xh < b:
+    if not a < xh < b and model.horizon is not None:
         raise HorizonError(f"the window ({a:g}, {b:g}) does not contain the horizon at x = {xh:g}; the direct "
                            f"solver integrates across the horizon: choose a < {xh:g} < b, or window=None for "
                            f"the automatic window {tuple(round(v, 1) for v in default_window(model))}")
@@ -321,7 +321,7 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
                              f"{CUTOFF_GUARD:g} relative): two modes merge there and their flux normalisation "
                              f"diverges; move omega away from the cut-off (e.g. by 1e-6 relative)")
     a, b = _window(model, window)
-    xh = float(model.horizon)
+    xh = centre(model)
     dev = {"interior": deviation(model, a, "interior"), "exterior": deviation(model, b, "exterior")}
     if window is not None:
         for side, d in dev.items():
@@ -341,8 +341,10 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
             f"the leading coefficient of the mode equation vanishes near x = {xbad:.4g} (a singular point, as "
             f"at the horizon of a non-dispersive flow); the direct solver integrates through the horizon and "
             f"needs a dispersive model (e.g. quartic_flow); use the contour method model.scatter(omega)")
-    mL = local_modes(model, w, a, "interior")
-    mR = local_modes(model, w, b, "exterior")
+    orientation = getattr(model, "orientation", None)
+    # sides are physical: "exterior" is the subsonic side (x -> +infinity for a horizonless flow)
+    mL = _physical(local_modes(model, w, a, "interior"), orientation)
+    mR = _physical(local_modes(model, w, b, "exterior"), orientation)
     ends = mL + mR
     fixed_zero = [j for j, md in enumerate(ends) if md.kind == "growing"]
     in_idx = [j for j, md in enumerate(ends) if md.direction == "in"]
@@ -376,17 +378,25 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     eta_out = [md.norm for md in out_modes]
     resid = pseudo_unitarity_residual(S, eta_out, eta_in)
     message = f"{len(in_modes)} in-modes, {len(out_modes)} out-modes; window ({a:.6g}, {b:.6g})"
+    kappa = float(model.kappa) if model.kappa is not None else 0.0
     try:
-        fig = hawking_figures(S, in_modes, out_modes, w, float(model.kappa))
+        if model.horizon is None:
+            raise _Horizonless()
+        fig = oriented_figures(S, in_modes, out_modes, w, kappa, orientation)
         if fig["occupation"] == 0.0:
             message += ("; omega is above the cut-off omega_max: no in-mode of opposite norm to the Hawking "
                         "mode exists, so beta = 0 and thermal_ratio = 0 in the stationary picture")
+    except _Horizonless:
+        fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
+                   effective_temperature=0.0, hawking_temperature=0.0)
+        message += ("; horizonless flow: no Hawking channel (kappa = 0, thermal_ratio = 0); the mode conversion "
+                    "is in S")
     except ScatteringError:
         fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
-                   effective_temperature=0.0, hawking_temperature=float(model.kappa) / (2 * math.pi))
+                   effective_temperature=0.0, hawking_temperature=kappa / (2 * math.pi))
         message += ("; omega is above the cut-off omega_max: there is no propagating out-going mode on the "
                     "exterior side (no Hawking channel), so beta = 0 and thermal_ratio = 0 are reported")
-    ratio_prev = _ratio(prev, in_modes, out_modes, fig)
+    ratio_prev = _ratio(prev, in_modes, out_modes, fig, orientation)
     if fig["thermal_ratio"]:
         # resolution change of the ratio, and the noise floor of S (seen in the unitarity residual)
         # propagated to |beta/alpha|^2: 2 delta/|beta| + 2 delta/|alpha|
@@ -409,14 +419,28 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         hawking_index=fig["hawking_index"], alpha=fig["alpha"], beta=fig["beta"], others=fig["others"],
         thermal_ratio=fig["thermal_ratio"], occupation=fig["occupation"],
         effective_temperature=fig["effective_temperature"], hawking_temperature=fig["hawking_temperature"],
-        kappa=float(model.kappa), dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
+        kappa=kappa, dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
         success=success, message=message, method="direct",
         extra={"window": (a, b), "segments": len(nodes) - 1, "points": N, "resolution_difference": err,
-               "end_deviation": dev, "step": step})
+               "end_deviation": dev, "step": step}, convention=orientation)
 
 
-def _ratio(S, in_modes, out_modes, fig):
+class _Horizonless(Exception):
+    pass
+
+
+def _physical(modes, orientation):
+    """Side labels by physics: swap exterior/interior where the subsonic side is x < x_H."""
+    if orientation is None or orientation.subsonic_side != "-x":
+        return modes
+    swap = {"exterior": "interior", "interior": "exterior"}
+    for m in modes:
+        m.side = swap[m.side]
+    return modes
+
+
+def _ratio(S, in_modes, out_modes, fig, orientation=None):
     """Thermal ratio of an S-matrix at another resolution (for the error estimate)."""
     if S is None or fig["hawking_index"] is None:
         return fig["thermal_ratio"]
-    return hawking_figures(S, in_modes, out_modes, 1.0, 1.0)["thermal_ratio"]
+    return oriented_figures(S, in_modes, out_modes, 1.0, 1.0, orientation)["thermal_ratio"]

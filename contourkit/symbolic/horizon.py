@@ -151,6 +151,7 @@ class HorizonModel:
             # a horizonless flow: no sonic point, no near-horizon model (direct solver, turning points)
             self.horizon = None
             self.kappa = None
+            self.reference = 0.5 * (self.window[0] + self.window[1])
             self.orientation = self._horizonless_orientation()
             self._lin = None
             return
