@@ -50,7 +50,7 @@ def run_derive(args):
     """``contourkit derive``: print the derivation (text or LaTeX)."""
     from .derive import report
     model, _ = load(args)
-    print(report(model, omega=args.omega, latex=args.latex), end="")
+    print(report(model, omega=args.omega, latex=args.latex, symbolic=getattr(args, "symbolic", False)), end="")
     return 0
 
 

@@ -117,6 +117,9 @@ def build_parser():
     p.add_argument("--omega", type=positive_float, metavar="W",
                    help="frequency of the near-horizon equation (default: omega = kappa)")
     p.add_argument("--latex", action="store_true", help="print LaTeX (an align* block) instead of text")
+    p.add_argument("--symbolic", action="store_true",
+                   help="keep the parameters and omega as symbols: horizon, kappa, T_H, k-space equation, "
+                        "exponent and singular points as formulas")
 
     p = sub.add_parser("spectrum", parents=[common], help="Hawking spectrum over a frequency range, to CSV",
                        description="Compute |beta|^2, |beta/alpha|^2, T_eff/T_H and the pseudo-unitarity "

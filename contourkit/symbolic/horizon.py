@@ -77,12 +77,29 @@ def _normalise_parameters(parameters):
     return out
 
 
-def _profile_substitutions(profiles, x, params):
+def _align(params, exprs):
+    """Key each parameter by the symbol of the same name in the expressions (a symbol with assumptions
+    and a plain one of the same name are different to sympy)."""
+    names = {}
+    for e in exprs:
+        for s in sp.sympify(e).free_symbols:
+            names.setdefault(s.name, s)
+    return {names.get(s.name, s): v for s, v in params.items()}
+
+
+def _symbolic_source(D, profiles, x, omega, k):
+    """The dispersion function with the profiles substituted and the parameters left as symbols."""
+    subs = _profile_substitutions(profiles, x, {}, strict=False)
+    e = sp.sympify(D).subs(subs).subs(omega, OMEGA).subs(k, KS)
+    return e.subs(x, sp.Symbol("x")) if x != sp.Symbol("x") else e
+
+
+def _profile_substitutions(profiles, x, params, strict=True):
     subs = {}
     for name, expr in (profiles or {}).items():
         e = sp.sympify(expr).subs(params)
         extra = e.free_symbols - {x}
-        if extra:
+        if extra and strict:
             raise ModelError(f"the profile {name} contains the symbol(s) "
                              f"{', '.join(sorted(map(str, extra)))} that have no value; add them to parameters")
         if isinstance(name, str):
@@ -175,7 +192,14 @@ class HorizonModel:
         positive-norm modes have ``dD/domega > 0``.
         """
         params = _normalise_parameters(parameters)
+        params = _align(params, [D, *(profiles or {}).values()])
         subs = _profile_substitutions(profiles, x, params)
+        try:
+            Dsym = sp.expand(_symbolic_source(D, profiles, x, omega, k))
+            gsym = [sp.expand(sp.Poly(Dsym, KS).coeff_monomial(KS ** m) * (-I) ** m)
+                    for m in range(sp.Poly(Dsym, KS).degree() + 1)]
+        except (sp.PolynomialError, TypeError, ValueError):
+            gsym = None
         D = sp.sympify(D).subs(params).subs(subs).subs(omega, OMEGA).subs(k, KS)
         D = D.subs(x, sp.Symbol("x")) if x != sp.Symbol("x") else D
         X = sp.Symbol("x")
@@ -194,7 +218,10 @@ class HorizonModel:
         if n < 1:
             raise ModelError("the dispersion relation does not depend on k")
         g = [sp.expand(poly.coeff_monomial(KS ** m) * (-I) ** m) for m in range(n + 1)]
-        return cls(g, omega=OMEGA, x=X, profiles=profiles, parameters=params, **kw)
+        model = cls(g, omega=OMEGA, x=X, profiles=profiles, parameters=params, **kw)
+        model._symbolic_g = gsym
+        model._symbolic_params = params
+        return model
 
     @classmethod
     def from_ode(cls, expr, y, x, *, profiles=None, parameters=None, frequency=None, horizon=None, **kw):
@@ -218,6 +245,13 @@ class HorizonModel:
         model = cls(to_symmetric(coeffs, X), omega=OMEGA, x=X, horizon=horizon,
                     profiles=profiles, parameters=params, **kw)
         model._default_omega = omega_val
+        try:
+            ssub = _profile_substitutions(profiles, x, {}, strict=False)
+            csym = [sp.sympify(c).subs(ssub).doit().subs(w, OMEGA).subs(x, X) for c in ode_coefficients(expr, y, x)]
+            model._symbolic_g = to_symmetric(csym, X)
+            model._symbolic_params = params
+        except (sp.PolynomialError, TypeError, ValueError):  # pragma: no cover - symbolic extra only
+            pass
         return model
 
     # -- horizon ------------------------------------------------------
