@@ -442,8 +442,22 @@ class HorizonModel:
         return derive(self, **kw)
 
     # -- near-horizon equation ----------------------------------------
-    def mode_equation(self, omega):
-        """The linearised near-horizon ModeEquation at frequency omega (horizon at x = 0)."""
+    def mode_equation(self, omega, *, at=None):
+        """The linearised near-horizon ModeEquation at frequency omega (horizon at x = 0).
+
+        ``at=x0`` linearises at x0 instead (shifted to x = 0), e.g. at a dispersive
+        turning point of ``model.turning_points(omega)``: its k-space equation
+        has the double saddle k_t at x = 0.
+        """
+        if at is not None:
+            x0 = exact(at)
+            # coefficients at x0 as 40-digit decimals (closed forms at a numeric x0 grow without bound)
+            lin = [(exact_expr(sp.N(a, 40)), exact_expr(sp.N(b, 40))) for a, b in linearise(self.g, self.x, x0)]
+            g_lin = [sp.expand((a + b * self.x).subs(OMEGA, exact(omega))) for a, b in lin]
+            left = from_symmetric(g_lin, self.x)
+            return ModeEquation([sp.expand(c).subs(self.x, 0) for c in left],
+                                [sp.expand(sp.diff(c, self.x)) for c in left], kappa=None, horizon=float(at),
+                                note=f"symmetric form linearised at x0 = {float(at)}, shifted to x = 0")
         if omega is None:
             omega = getattr(self, "_default_omega", None)
             if omega is None:
