@@ -3,8 +3,10 @@
 Conventions (all models): ``phi ~ exp(-i omega t + i k x)``; units with the
 low-frequency wave speed c = 1; the fluid (or the front) moves towards -x
 near the horizon, ``v(x) = -1 + kappa x + ...``; horizon at x = 0, exterior
-(subsonic) side x > 0.  Each dispersion function is normalised so that
-positive-norm modes have ``dD/domega > 0``.
+(subsonic) side x > 0.  ``hole="white"`` gives the time reverse with the same
+flow direction (``v(x) -> v(-x)``: subsonic side x < 0; ``model.orientation``).
+Each dispersion function is normalised so that positive-norm modes have
+``dD/domega > 0``.
 
 References
 ----------
