@@ -145,8 +145,8 @@ def canonical_and_map(model):
     """
     o = getattr(model, "orientation", None)
     if o is not None and o.hole == "none":
-        raise ScatteringError("a horizonless flow has no near-horizon S-matrix; use contourkit.direct.scatter "
-                              "(full profile) or the turning-point scattering (model.turning_points(omega))")
+        raise ScatteringError("a horizonless flow has no near-horizon S-matrix; use model.scatter(omega) (at its "
+                              "dispersive turning point) or contourkit.direct.scatter (full profile)")
     if o is None or o.canonical:
         def same(res):
             res.convention = o

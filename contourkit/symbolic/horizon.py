@@ -39,7 +39,7 @@ import sympy as sp
 
 from . import extensions
 from ._sym import KS, OMEGA, I, exact, exact_expr
-from ..errors import ContourkitWarning, HorizonError, InputError, ModelError
+from ..errors import ContourkitWarning, HorizonError, InputError, ModelError, ScatteringError
 from .equation import ModeEquation, ode_coefficients
 from .orientation import Orientation, transform_coefficients
 from .symmetric import from_symmetric, linearise, to_symmetric
@@ -484,7 +484,19 @@ class HorizonModel:
 
     # -- physics entry points (thin wrappers over functional layers) --
     def scatter(self, omega, **kw):
-        """Near-horizon S-matrix at one frequency; see :func:`contourkit.scattering.smatrix.scatter`."""
+        """Near-horizon S-matrix at one frequency; see :func:`contourkit.scattering.smatrix.scatter`.
+
+        A horizonless flow scatters at its dispersive turning point instead
+        (:func:`contourkit.scattering.turning.scatter_turning_point`); it must have exactly one.
+        """
+        if self.horizon is None:
+            tps = self.turning_points(omega)
+            if len(tps) != 1:
+                raise ScatteringError(
+                    f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "
+                    f"({', '.join(f'x = {t.x:.6g}' for t in tps) or 'none'}); the contour method scatters at "
+                    f"exactly one; use contourkit.direct.scatter for the full profile")
+            return extensions.call("scatter_turning_point", self, omega, tps[0], **kw)
         return extensions.call("scatter", self, omega, **kw)
 
     def spectrum(self, omegas, **kw):

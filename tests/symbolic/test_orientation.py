@@ -92,8 +92,9 @@ def test_horizonless_model():
     with pytest.raises(ck.HorizonError, match="horizonless"):
         m.mode_equation(0.1)
     with pytest.raises(ck.ScatteringError, match="horizonless"):
-        ck.scattering.scatter.__wrapped__(m, 0.1) if hasattr(ck.scattering.scatter, "__wrapped__") else \
-            ck.scattering.smatrix.scatter(m, 0.1)
+        ck.scattering.smatrix.scatter(m, 0.1)        # no near-horizon S-matrix
+    with pytest.raises(ck.ScatteringError, match="0 dispersive turning points"):
+        m.scatter(0.1)                               # non-dispersive: no turning point either
 
 
 def test_orientation_from_signs():
