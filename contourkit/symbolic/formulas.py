@@ -26,7 +26,7 @@ Examples
 >>> import sympy as sp, contourkit as ck
 >>> w, k, x, kap, Lam = sp.symbols("omega k x kappa Lambda")
 >>> m = ck.HorizonModel.from_dispersion((w - (-1 + kap*x)*k)**2 - k**2 - k**4/Lam**2, omega=w, k=k, x=x,
-...                                     parameters={kap: 0.05, Lam: 2.5})
+...                                     horizon=0, parameters={kap: 0.05, Lam: 2.5})
 >>> d = m.symbolic()
 >>> d.horizon, d.kappa
 (0, kappa)
