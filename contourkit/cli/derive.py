@@ -14,6 +14,18 @@ def _facts(model, omega):
     """Named entries (label, sympy-or-text value) in the order they are printed."""
     from ..symbolic.horizon import HorizonModel
     items = []
+    if isinstance(model, HorizonModel) and model.horizon is None:
+        # a horizonless flow: no near-horizon equation; its dispersive turning points at omega
+        items += [("model", model.name or "unnamed"),
+                  ("dispersion relation D(omega, k; x) = 0, full profile", model.dispersion),
+                  ("horizon", "none (horizonless flow)"), ("orientation", str(model.orientation))]
+        if omega is None:
+            items.append(("turning points", "give --omega W to list the dispersive turning points"))
+        else:
+            items.append(("frequency omega", exact(omega)))
+            items.append(("turning points (x_t: k_t)", [(round(t.x, 10), round(t.k, 10))
+                                                       for t in model.turning_points(omega)]))
+        return items
     if isinstance(model, HorizonModel):
         items += [("model", model.name or "unnamed"),
                   ("dispersion relation D(omega, k; x) = 0, full profile", model.dispersion),
