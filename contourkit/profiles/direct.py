@@ -422,7 +422,9 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         kappa=kappa, dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
         success=success, message=message, method="direct",
         extra={"window": (a, b), "segments": len(nodes) - 1, "points": N, "resolution_difference": err,
-               "end_deviation": dev, "step": step}, convention=orientation)
+               "end_deviation": dev, "step": step,
+               **({"hawking_channel_of_S": "column"} if orientation is not None and orientation.time_reversed
+                  else {})}, convention=orientation)
 
 
 class _Horizonless(Exception):
