@@ -14,7 +14,7 @@ from . import smatrix as _smatrix
 from .results import Mode, RowTable, ScatteringResult
 from .smatrix import continuation_ratio, scatter
 from .spectra import Spectrum, spectrum
-from .turning import scatter_turning_point
+from .conversion import scatter_turning_point
 
 extensions.provide("scatter", scatter)
 extensions.provide("spectrum", spectrum)

@@ -487,7 +487,7 @@ class HorizonModel:
         """Near-horizon S-matrix at one frequency; see :func:`contourkit.scattering.smatrix.scatter`.
 
         A horizonless flow scatters at its dispersive turning point instead
-        (:func:`contourkit.scattering.turning.scatter_turning_point`); it must have exactly one.
+        (:func:`contourkit.scattering.conversion.scatter_turning_point`); it must have exactly one.
         """
         if self.horizon is None:
             tps = self.turning_points(omega)
