@@ -3,8 +3,10 @@
 Conventions (all models): ``phi ~ exp(-i omega t + i k x)``; units with the
 low-frequency wave speed c = 1; the fluid (or the front) moves towards -x
 near the horizon, ``v(x) = -1 + kappa x + ...``; horizon at x = 0, exterior
-(subsonic) side x > 0.  Each dispersion function is normalised so that
-positive-norm modes have ``dD/domega > 0``.
+(subsonic) side x > 0.  ``hole="white"`` gives the time reverse with the same
+flow direction (``v(x) -> v(-x)``: subsonic side x < 0; ``model.orientation``).
+Each dispersion function is normalised so that positive-norm modes have
+``dD/domega > 0``.
 
 References
 ----------
@@ -42,7 +44,14 @@ def _flow_profile(kappa, D):
     return -1 + D * sp.tanh(kappa * _x / D), None
 
 
-def nondispersive_flow(kappa=0.05, *, D=None):
+def _hole_sign(hole):
+    """+1 for a black hole (v = -1 + kappa x + ...), -1 for a white hole (v = -1 - kappa x + ...)."""
+    if hole not in ("black", "white"):
+        raise InputError(f"hole must be 'black' or 'white', got {hole!r}")
+    return 1 if hole == "black" else -1
+
+
+def nondispersive_flow(kappa=0.05, *, D=None, hole="black"):
     """Sound in a flow without dispersion: ``D = (omega - v k)^2 - k^2``.
 
     Parameters
@@ -52,6 +61,13 @@ def nondispersive_flow(kappa=0.05, *, D=None):
     D : float, optional
         None: linear profile ``v = -1 + kappa x`` (exactly the near-horizon
         model); else ``v = -1 + D tanh(kappa x / D)``.
+    hole : {"black", "white"}
+        "white": the time reverse with the same flow direction,
+        ``v = -1 - kappa x`` (or ``-1 - D tanh(kappa x / D)``): the fluid flows
+        from the supersonic side x > 0 into the subsonic side x < 0.  Its
+        S-matrix is the black hole's time reversed
+        (:mod:`contourkit.scattering.oriented`); ``model.orientation`` states
+        the convention.
 
     Notes
     -----
@@ -69,8 +85,9 @@ def nondispersive_flow(kappa=0.05, *, D=None):
     """
     kappa = _positive("kappa", kappa)
     v, _ = _flow_profile(kappa, D)
+    v = v.subs(_x, _hole_sign(hole) * _x)
     m = HorizonModel.from_dispersion((_w - v * _k) ** 2 - _k ** 2, omega=_w, k=_k, x=_x, horizon=0.0,
-                                     name="nondispersive flow",
+                                     name="nondispersive flow" + (" (white hole)" if hole == "white" else ""),
                                      description="(omega - v k)^2 = k^2 with v = " + str(v))
     m.branch = None
     m.Lambda = None
@@ -78,7 +95,7 @@ def nondispersive_flow(kappa=0.05, *, D=None):
     return m
 
 
-def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None):
+def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None, *, hole="black"):
     """Flow with quartic dispersion: ``(omega - v k)^2 = k^2 (1 +- k^2/Lambda^2)``.
 
     Parameters
@@ -94,6 +111,10 @@ def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None):
     D : float, optional
         None: ``v = -1 + kappa x``; else ``v = -1 + D tanh(kappa x / D)``
         with 0 < D < 1 (uniform asymptotic regions v -> -1 +- D).
+    hole : {"black", "white"}
+        "white": ``v(x) -> v(-x)`` (``v = -1 - kappa x`` near x = 0), the time
+        reverse of the black hole with the same flow direction; subsonic side
+        x < 0 (``model.orientation``).
 
     Notes
     -----
@@ -116,9 +137,10 @@ def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None):
         raise InputError(f"branch must be 'superluminal' or 'subluminal', got {branch!r}")
     s = 1 if branch == "superluminal" else -1
     v, _ = _flow_profile(kappa, D)
+    v = v.subs(_x, _hole_sign(hole) * _x)
     Dfun = (_w - v * _k) ** 2 - _k ** 2 - s * _k ** 4 / Lambda ** 2
     m = HorizonModel.from_dispersion(Dfun, omega=_w, k=_k, x=_x, horizon=0.0,
-                                     name=f"quartic {branch} flow",
+                                     name=f"quartic {branch} flow" + (" (white hole)" if hole == "white" else ""),
                                      description=f"(omega - v k)^2 = k^2 (1 {'+' if s > 0 else '-'} k^2/Lambda^2), v = {v}")
     m.branch = branch
     m.Lambda = Lambda

@@ -61,6 +61,9 @@ def _derive_options(p):
     p.add_argument("--omega", type=positive_float, metavar="W",
                    help="frequency of the near-horizon equation (default: omega = kappa)")
     p.add_argument("--latex", action="store_true", help="print LaTeX (an align* block) instead of text")
+    p.add_argument("--symbolic", action="store_true",
+                   help="keep the parameters and omega as symbols: horizon, kappa, T_H, k-space equation, "
+                        "exponent and singular points as formulas")
 
 
 @command("derive", help="print the derived k-space equation and constants", options=_derive_options,
@@ -71,7 +74,7 @@ def run_derive(args):
     """``contourkit derive``: print the derivation (text or LaTeX)."""
     from .derive import report
     model, _ = load(args)
-    print(report(model, omega=args.omega, latex=args.latex), end="")
+    print(report(model, omega=args.omega, latex=args.latex, symbolic=getattr(args, "symbolic", False)), end="")
     return 0
 
 

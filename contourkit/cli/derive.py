@@ -14,6 +14,18 @@ def _facts(model, omega):
     """Named entries (label, sympy-or-text value) in the order they are printed."""
     from ..symbolic.horizon import HorizonModel
     items = []
+    if isinstance(model, HorizonModel) and model.horizon is None:
+        # a horizonless flow: no near-horizon equation; its dispersive turning points at omega
+        items += [("model", model.name or "unnamed"),
+                  ("dispersion relation D(omega, k; x) = 0, full profile", model.dispersion),
+                  ("horizon", "none (horizonless flow)"), ("orientation", str(model.orientation))]
+        if omega is None:
+            items.append(("turning points", "give --omega W to list the dispersive turning points"))
+        else:
+            items.append(("frequency omega", exact(omega)))
+            items.append(("turning points (x_t: k_t)", [(round(t.x, 10), round(t.k, 10))
+                                                       for t in model.turning_points(omega)]))
+        return items
     if isinstance(model, HorizonModel):
         items += [("model", model.name or "unnamed"),
                   ("dispersion relation D(omega, k; x) = 0, full profile", model.dispersion),
@@ -74,6 +86,8 @@ def _latex_line(label, v):
     if isinstance(v, list):
         if not v:
             return f"% {label}: none"
+        if label.startswith("parameters"):
+            return f"% {label}: " + ", ".join(f"{a} = {b}" for a, b in v)
         if label.startswith("valleys"):
             return f"% {label}: " + "; ".join(f"{a}, {b}" for a, b in v)
         sym = r"\nu" if label.startswith("branch") else "n"
@@ -85,7 +99,27 @@ def _latex_line(label, v):
     return f"{name} &= {value} \\\\"
 
 
-def report(model, *, omega=None, latex=False):
+def _symbolic_facts(model):
+    """Named formulas of :meth:`HorizonModel.symbolic` (parameters and omega kept as symbols)."""
+    from ..errors import InputError
+    from ..symbolic.horizon import HorizonModel
+    if not isinstance(model, HorizonModel):
+        raise InputError("--symbolic needs a horizon model (kind = \"dispersion\", or an ode with [profiles])")
+    d = model.symbolic()
+    return [("model", model.name or "unnamed"),
+            ("parameters (symbol = value)", [(s, v) for s, v in d.parameters.items()]),
+            ("dispersion relation D(omega, k; x) = 0, full profile", d.dispersion),
+            ("horizon x_H (shifted to x = 0 below)", d.horizon),
+            ("surface gravity kappa", d.kappa),
+            ("Hawking temperature T_H = kappa/(2 pi)", d.hawking_temperature),
+            ("left symbol A(k) + x B(k): A", d.A), ("left symbol A(k) + x B(k): B", d.B),
+            ("k-space equation for f(k)", d.kspace_ode),
+            ("exponent E(k), f = exp(E)", d.exponent),
+            ("branch points (k_j: exponent nu_j)", list(d.singular_points)),
+            ("orientation", str(model.orientation)), ("note", d.note)]
+
+
+def report(model, *, omega=None, latex=False, symbolic=False):
     """The derivation of a model as text (or as a LaTeX ``align*`` block).
 
     Parameters
@@ -95,12 +129,15 @@ def report(model, *, omega=None, latex=False):
         Frequency of the near-horizon equation (default: omega = kappa).
     latex : bool
         LaTeX instead of plain text.
+    symbolic : bool
+        Formulas with the parameters and omega as symbols
+        (:func:`contourkit.symbolic.formulas.derive`); omega is then ignored.
 
     Returns
     -------
     str
     """
-    items = _facts(model, omega)
+    items = _symbolic_facts(model) if symbolic else _facts(model, omega)
     if not latex:
         width = max(len(k) for k, _ in items)
         return "\n".join(f"{k:<{width}} : {_text_value(v)}" for k, v in items) + "\n"

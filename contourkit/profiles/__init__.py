@@ -5,9 +5,10 @@ Entry points: :func:`.direct.scatter`, :func:`.cutoff.omega_max`,
 :func:`.comparison.compare`.
 """
 from ..symbolic import extensions
-from . import cutoff, direct
+from . import cutoff, direct, turning
 from .comparison import compare
 
 extensions.provide("omega_max", cutoff.omega_max)
+extensions.provide("turning_points", turning.turning_points)
 
-__all__ = ["compare", "cutoff", "direct"]
+__all__ = ["compare", "cutoff", "direct", "turning"]

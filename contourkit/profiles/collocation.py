@@ -20,7 +20,7 @@ import sympy as sp
 
 from ..errors import HorizonError, InputError
 from ..symbolic.symmetric import from_symmetric
-from .planewaves import OMEGA, X, default_window, max_root_modulus
+from .planewaves import OMEGA, X, centre, default_window, max_root_modulus
 
 _left_cache = weakref.WeakKeyDictionary()
 
@@ -49,7 +49,7 @@ def left_form(model):
 
 
 def _window(model, window):
-    xh = float(model.horizon)
+    xh = centre(model)
     if window is None:
         return default_window(model)
     try:
@@ -58,7 +58,7 @@ def _window(model, window):
         raise InputError(f"window must be a pair of numbers (a, b), got {window!r}")
     if not (math.isfinite(a) and math.isfinite(b)) or not a < b:
         raise InputError(f"window must be two finite numbers a < b, got {window!r}")
-    if not a < xh < b:
+    if not a < xh < b and model.horizon is not None:
         raise HorizonError(f"the window ({a:g}, {b:g}) does not contain the horizon at x = {xh:g}; the direct "
                            f"solver integrates across the horizon: choose a < {xh:g} < b, or window=None for "
                            f"the automatic window {tuple(round(v, 1) for v in default_window(model))}")

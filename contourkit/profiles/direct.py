@@ -67,11 +67,11 @@ import scipy.sparse as sps
 from threadpoolctl import threadpool_limits
 import scipy.sparse.linalg as spla
 
-from ..scattering.bogoliubov import hawking_figures
+from ..scattering.oriented import oriented_figures
 from .cutoff import model_cutoffs
 from ..errors import AccuracyWarning, InputError, ScatteringError
-from .planewaves import (asymptotic_dispersion, default_window, deviation, dispersion_callables, local_modes,
-                         local_roots)
+from .planewaves import (asymptotic_dispersion, centre, default_window, deviation, dispersion_callables,
+                         local_modes, local_roots)
 from ..scattering.results import Mode, ScatteringResult, pseudo_unitarity_residual
 from .collocation import _nodes, _transfer, _window, left_form
 from .unstable import unstable_modes  # noqa: F401  (ck.direct.unstable_modes, DESIGN.md)
@@ -296,7 +296,7 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
                              f"{CUTOFF_GUARD:g} relative): two modes merge there and their flux normalisation "
                              f"diverges; move omega away from the cut-off (e.g. by 1e-6 relative)")
     a, b = _window(model, window)
-    xh = float(model.horizon)
+    xh = centre(model)
     dev = {"interior": deviation(model, a, "interior"), "exterior": deviation(model, b, "exterior")}
     if window is not None:
         for side, d in dev.items():
@@ -316,12 +316,14 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
             f"the leading coefficient of the mode equation vanishes near x = {xbad:.4g} (a singular point, as "
             f"at the horizon of a non-dispersive flow); the direct solver integrates through the horizon and "
             f"needs a dispersive model (e.g. quartic_flow); use the contour method model.scatter(omega)")
+    orientation = getattr(model, "orientation", None)
+    # sides are physical: "exterior" is the subsonic side (x -> +infinity for a horizonless flow)
     if cplx:
-        mL = _continued_modes(model, w, a, "interior")
-        mR = _continued_modes(model, w, b, "exterior")
+        mL = _physical(_continued_modes(model, w, a, "interior"), orientation)
+        mR = _physical(_continued_modes(model, w, b, "exterior"), orientation)
     else:
-        mL = local_modes(model, w, a, "interior")
-        mR = local_modes(model, w, b, "exterior")
+        mL = _physical(local_modes(model, w, a, "interior"), orientation)
+        mR = _physical(local_modes(model, w, b, "exterior"), orientation)
     ends = mL + mR
     fixed_zero = [j for j, md in enumerate(ends) if md.kind == "growing"]
     in_idx = [j for j, md in enumerate(ends) if md.direction == "in"]
@@ -358,33 +360,42 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     if cplx:
         # analytic continuation of pseudo-unitarity: S(conj omega)^dagger eta S(omega) = eta
         wc = w.conjugate()
-        ends_c = _continued_modes(model, wc, a, "interior") + _continued_modes(model, wc, b, "exterior")
+        ends_c = (_physical(_continued_modes(model, wc, a, "interior"), orientation)
+                  + _physical(_continued_modes(model, wc, b, "exterior"), orientation))
         Sc = _solve(_transfer(coeffs, wc, nodes, N, K), _mode_columns(ends_c[:n], a, xh, K),
                     _mode_columns(ends_c[n:], b, xh, K), fixed_zero, in_idx)[out_idx, :]
         resid = float(np.max(np.abs(Sc.conj().T @ np.diag(np.asarray(eta_out, float)) @ S - np.diag(
             np.asarray(eta_in, float)))))
         message += ("; complex omega: S is the analytic continuation of the real-frequency S-matrix (labels "
                     "continued from Re omega; its poles in Im omega > 0 are the unstable modes, see "
-                    "contourkit.unstable.unstable_modes); unitarity_residual is max|S(conj omega)^dagger eta "
+                    "ck.direct.unstable_modes); unitarity_residual is max|S(conj omega)^dagger eta "
                     "S(omega) - eta|; the thermal figures of a complex frequency are not a spectrum "
                     "(effective_temperature None)")
     else:
         resid = pseudo_unitarity_residual(S, eta_out, eta_in)
     cuts = model_cutoffs(model)
+    kappa = float(model.kappa) if model.kappa is not None else 0.0
     try:
-        fig = hawking_figures(S, in_modes, out_modes, wr, float(model.kappa))
+        if model.horizon is None:
+            raise _Horizonless()
+        fig = oriented_figures(S, in_modes, out_modes, wr, kappa, orientation)
         if fig["occupation"] == 0.0 and cuts and wr > cuts[0].omega:
             message += ("; omega is above the cut-off omega_max: no in-mode of opposite norm to the Hawking "
                         "mode exists, so beta = 0 and thermal_ratio = 0 in the stationary picture")
         elif fig["occupation"] == 0.0:
             message += ("; every in-mode has the norm sign of the Hawking mode (no opposite-norm in-mode in "
                         "the asymptotic regions), so beta = 0 and thermal_ratio = 0")
+    except _Horizonless:
+        fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
+                   effective_temperature=0.0, hawking_temperature=0.0)
+        message += ("; horizonless flow: no Hawking channel (kappa = 0, thermal_ratio = 0); the mode conversion "
+                    "is in S")
     except ScatteringError:
         fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
-                   effective_temperature=0.0, hawking_temperature=float(model.kappa) / (2 * math.pi))
+                   effective_temperature=0.0, hawking_temperature=kappa / (2 * math.pi))
         message += ("; omega is above the cut-off omega_max: there is no propagating out-going mode on the "
                     "exterior side (no Hawking channel), so beta = 0 and thermal_ratio = 0 are reported")
-    ratio_prev = _ratio(prev, in_modes, out_modes, fig)
+    ratio_prev = _ratio(prev, in_modes, out_modes, fig, orientation)
     if fig["thermal_ratio"]:
         # resolution change of the ratio, and the noise floor of S (seen in the unitarity residual)
         # propagated to |beta/alpha|^2: 2 delta/|beta| + 2 delta/|alpha|
@@ -409,14 +420,30 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         hawking_index=fig["hawking_index"], alpha=fig["alpha"], beta=fig["beta"], others=fig["others"],
         thermal_ratio=fig["thermal_ratio"], occupation=fig["occupation"],
         effective_temperature=fig["effective_temperature"], hawking_temperature=fig["hawking_temperature"],
-        kappa=float(model.kappa), dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
+        kappa=kappa, dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
         success=success, message=message, method="direct",
         extra={"window": (a, b), "segments": len(nodes) - 1, "points": N, "resolution_difference": err,
-               "end_deviation": dev, "step": step})
+               "end_deviation": dev, "step": step,
+               **({"hawking_channel_of_S": "column"} if orientation is not None and orientation.time_reversed
+                  else {})}, convention=orientation)
 
 
-def _ratio(S, in_modes, out_modes, fig):
+class _Horizonless(Exception):
+    pass
+
+
+def _physical(modes, orientation):
+    """Side labels by physics: swap exterior/interior where the subsonic side is x < x_H."""
+    if orientation is None or orientation.subsonic_side != "-x":
+        return modes
+    swap = {"exterior": "interior", "interior": "exterior"}
+    for m in modes:
+        m.side = swap[m.side]
+    return modes
+
+
+def _ratio(S, in_modes, out_modes, fig, orientation=None):
     """Thermal ratio of an S-matrix at another resolution (for the error estimate)."""
     if S is None or fig["hawking_index"] is None:
         return fig["thermal_ratio"]
-    return hawking_figures(S, in_modes, out_modes, 1.0, 1.0)["thermal_ratio"]
+    return oriented_figures(S, in_modes, out_modes, 1.0, 1.0, orientation)["thermal_ratio"]

@@ -211,6 +211,13 @@ def deviation(model, x, side):
         return float(dev / scale)
 
 
+def centre(model):
+    """The point the asymptotic regions are measured from: the horizon, or a horizonless model's reference."""
+    if model.horizon is not None:
+        return float(model.horizon)
+    return float(getattr(model, "reference", 0.0))
+
+
 def uniform_length(model, side, *, tol=WINDOW_TOL, start=1e-2, stop=1e7):
     """Smallest distance L from the horizon beyond which the profile is uniform to ``tol``.
 
@@ -224,7 +231,7 @@ def uniform_length(model, side, *, tol=WINDOW_TOL, start=1e-2, stop=1e7):
         If the profile is not uniform to ``tol`` even at ``stop``.
     """
     sign = _side_sign(side)
-    xh = float(model.horizon)
+    xh = centre(model)
     ds = np.geomspace(start, stop, 721)
     bad = [d for d in ds if deviation(model, xh + sign * d, side) > tol]
     if not bad:
@@ -251,7 +258,7 @@ def default_window(model, *, tol=WINDOW_TOL):
     st = _store(model)
     key = ("window", float(tol))
     if key not in st:
-        xh = float(model.horizon)
+        xh = centre(model)
         st[key] = (xh - uniform_length(model, "interior", tol=tol), xh + uniform_length(model, "exterior", tol=tol))
     return st[key]
 
@@ -359,7 +366,7 @@ def local_modes(model, omega, x, side=None, *, real_tol=1e-9):
     list of Mode, sorted by (kind, direction, Re k).
     """
     if side is None:
-        side = "exterior" if x > float(model.horizon) else "interior"
+        side = "exterior" if x > centre(model) else "interior"
     roots = local_roots(model, float(omega), float(x))
     scale = max(float(np.max(np.abs(roots))), 1e-300)
     out = []
@@ -378,7 +385,7 @@ def asymptotic_modes(model, omega, side, *, distance=None):
     """
     sign = _side_sign(side)
     d = uniform_length(model, side) if distance is None else float(distance)
-    return local_modes(model, omega, float(model.horizon) + sign * d, side)
+    return local_modes(model, omega, centre(model) + sign * d, side)
 
 
 def mode_count(modes):

@@ -102,33 +102,46 @@ def turning_mode(dd, side, k, x, x_far, dk_sign):
 
 
 def _track_root(dd, r, x_from, x_to, dps=None, steps=80):
-    """Follow a real root of D(k; x) from x_from towards x_to (same sign) by Newton continuation.
+    """Follow a real root of D(k; x) from x_from towards x_to (same sign) along its branch.
 
-    Stops where the root leaves the real axis (a turning point: the mode does
-    not exist closer in); returns the root and the position where it was last
-    real.  Double precision: only the signs of dD/dk and dD/domega there are used.
+    At each step the real roots of the polynomial are computed and the one
+    nearest to the previous root with the same sign of dD/dk is taken: along a
+    real branch dD/dk vanishes only at a turning point, so where two real
+    roots cross (a mode that decouples from the profile) the branch is the
+    one that keeps its flux direction.  Stops where no such root is left (a
+    turning point: the mode does not exist closer in); returns the root and
+    the position where it was last real.  Double precision: only the signs
+    of dD/dk and dD/domega there are used.
     """
-    r = complex(r)
-    last = (r, x_from)
+    r = complex(r).real
+    last = (complex(r), x_from)
     s0, s1 = dd.s0_np, dd.s1_np
     d0, d1 = np.polyder(s0), np.polyder(s1)
+    sign0 = np.sign((np.polyval(d0, r) + x_from * np.polyval(d1, r)).real)
     for t in range(1, steps + 1):
         x = x_from * (x_to / x_from) ** (t / steps)
-        c = [complex(v) for v in np.polyadd(s0, x * s1)]
-        dc = [complex(v) for v in np.polyadd(d0, x * d1)]
-        rn = r
-        converged = False
-        for _ in range(60):
-            step = _horner(c, rn) / _horner(dc, rn)
-            rn -= step
-            if abs(step) < 1e-14 * (1 + abs(rn)):
-                converged = True
-                break
-        # from a real start Newton's iterates stay real: past a turning point they do not converge
-        if not converged or abs(rn.imag) > 1e-8 * (1 + abs(rn)) or abs(rn - r) > 0.5 * abs(r) + 1e-300:
+        c = np.polyadd(s0, x * s1)
+        dc = np.polyadd(d0, x * d1)
+        while len(c) > 1 and c[0] == 0:
+            c = c[1:]
+        roots = np.roots(c)
+        real = [z.real for z in roots if abs(z.imag) <= 1e-7 * (1 + abs(z))]
+        cands = []
+        for z in real:
+            for _ in range(3):                      # polish
+                dz = _horner(dc, z)
+                if dz == 0:
+                    break
+                z = (z - _horner(c, z) / dz).real
+            if np.sign(_horner(dc, z).real) == sign0:
+                cands.append(z)
+        if not cands:
             break
-        r = complex(rn.real)
-        last = (r, x)
+        rn = min(cands, key=lambda z: abs(z - r))
+        if abs(rn - r) > 0.5 * abs(r) + 1e-12 * (1 + abs(r)) + 1e-300:
+            break
+        r = rn
+        last = (complex(r), x)
     return last
 
 
@@ -189,7 +202,8 @@ def _near_label_plan(far_k, x, label_x, dd):
         if abs(rc.imag) <= 1e-9 * max(1.0, abs(rc)):
             near.append(_label(side, mpmath.mpf(rc.real), label_x, dd, "near horizon"))
     far = {i: _label(side, mpmath.mpf(k), x, dd, "") for i, k in enumerate(far_k) if k is not None}
-    claimed, pending, plan = set(), [], []
+    claimed, pending, plan, unmatched = set(), [], [], []
+    tracked = []
     for i, fm in far.items():
         r, xl = _track_root(dd, far_k[i], x, label_x)
         if abs(xl - label_x) > 1e-9 * abs(label_x) or not near:
@@ -199,12 +213,39 @@ def _near_label_plan(far_k, x, label_x, dd):
         # flux direction picks the branch where two near-horizon roots are close together
         same = [q for q in range(len(near)) if _flux_sign(near[q]) == _flux_sign(fm)]
         j = min(same, key=lambda q: abs(near[q].k - r)) if same else -1
-        if j < 0 or j in claimed or abs(near[j].k - r) > 0.1 * max(1.0, abs(r)):
-            raise ScatteringError(f"the root k = {far_k[i]:.6g} at x = {x} does not continue to a distinct "
-                                  f"near-horizon root at x = {label_x}; the mode cannot be labelled")
+        tracked.append((i, r, xl, j))
+    counts = {}
+    for _, _, _, j in tracked:
+        counts[j] = counts.get(j, 0) + 1
+    for i, r, xl, j in tracked:
+        if abs(xl - label_x) > 1e-9 * abs(label_x):
+            pending.append((i, r, xl))        # turned complex after a crossing: a turning mode
+            continue
+        if j < 0 or counts[j] > 1 or abs(near[j].k - r) > 0.1 * max(1.0, abs(r)):
+            # two real roots that cross (a mode that decouples from the profile, as the
+            # counter-propagating wave does for v + c constant) or a root that ends next to a root
+            # of the other flux direction: matched below by flux direction, the label a
+            # flux-conserving connection cannot change
+            pending.append((i, r, xl))
+            unmatched.append(i)
+            continue
         claimed.add(j)
-        plan.append((i, near[j], near[j].norm != fm.norm))
+        plan.append((i, near[j], near[j].norm != far[i].norm))
     free = [m for j, m in enumerate(near) if j not in claimed]
+    if not free and unmatched:
+        # a root that met another one on the way (crossing) and has no near-horizon root left: it is
+        # the partner of a mode that turns back, with the opposite flux direction, at the same
+        # turning point (two real branches of opposite dD/dk meet there)
+        turning = [(i, r, xl) for i, r, xl in pending if i not in unmatched]
+        paired = {}
+        for i in unmatched:
+            cands = [t for t in turning if _flux_sign(far[t[0]]) != _flux_sign(far[i]) and t[0] not in paired.values()]
+            if not cands:
+                raise ScatteringError(f"the root k = {far_k[i]:.6g} at x = {x} does not continue to a distinct "
+                                      f"near-horizon root at x = {label_x}; the mode cannot be labelled")
+            paired[i] = cands[0][0]
+        pos = {t[0]: t for t in pending}
+        pending = [(i, pos[paired[i]][1], pos[paired[i]][2]) if i in paired else (i, r, xl) for i, r, xl in pending]
     if not free:
         for i, r, xl in pending:
             last = turning_mode(dd, side, complex(r).real, float(xl), x, -_flux_sign(far[i]))
@@ -225,3 +266,4 @@ def _near_label_plan(far_k, x, label_x, dd):
     for i, _, _ in pending:
         plan.append((i, next(m for m in free if _flux_sign(m) == _flux_sign(far[i])), True))
     return plan
+

@@ -97,6 +97,13 @@ class ScatteringResult:
     message : str
     method : str
         "contour" (near-horizon exact solution) or "direct" (position space).
+    convention : Orientation or None
+        How the modes' sides and labels relate to the user's x
+        (:class:`contourkit.symbolic.orientation.Orientation`: black or white
+        hole, flow direction, which side is subsonic = "exterior", upstream
+        side).  Positions and wavenumbers of the modes are in the user's x.
+        For a white hole ``hawking_index`` is a column of S (the
+        long-wavelength in-mode; see :mod:`contourkit.scattering.oriented`).
     """
     omega: float
     in_modes: list
@@ -118,6 +125,7 @@ class ScatteringResult:
     message: str = ""
     method: str = "contour"
     extra: dict = field(default_factory=dict, repr=False)
+    convention: Any = field(default=None, repr=False)
 
     @property
     def modes(self):

@@ -185,7 +185,9 @@ def scatter(model, omega, *, dps=None):
     >>> res.unitarity_residual < 1e-10
     True
     """
-    return _scatter(model, omega, dps, None)
+    from .oriented import canonical_and_map
+    canon, to_user = canonical_and_map(model)
+    return to_user(_scatter(canon, omega, dps, None))
 
 
 def _prepare(model, omega, dps):

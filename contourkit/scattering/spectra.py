@@ -147,6 +147,8 @@ def follow_rows(model, ws, digits, *, follow=True, record=False, on_result=None)
     list of (ScatteringResult or None, str or None)
     """
     from .sweep import Lost, family as family_of
+    from .oriented import canonical_and_map
+    model, to_user = canonical_and_map(model)
     family, state, out = None, None, []
 
     def fast(st, w):
@@ -179,6 +181,8 @@ def follow_rows(model, ws, digits, *, follow=True, record=False, on_result=None)
             if not record:
                 raise
             res, err, state = None, _one_line(f"{type(exc).__name__}: {exc}"), None
+        if res is not None:
+            res = to_user(res)
         out.append((res, err))
         if on_result is not None:
             on_result(i, res, err)

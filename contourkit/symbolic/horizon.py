@@ -16,9 +16,14 @@ in symmetric form (:mod:`contourkit.symbolic.symmetric`).  The symmetric coeffic
 * the near-horizon ModeEquation: every g_m truncated to first order at x_H,
   so that the operator stays formally self-adjoint and the norm is conserved.
 
-Conventions: ``phi ~ exp(-i omega t + i k x)``; the fluid moves towards -x
-near the horizon; after the shift the horizon is at x = 0 and the exterior
-(subsonic) side is x > 0.
+Conventions: ``phi ~ exp(-i omega t + i k x)``; x is the user's x.  Any
+orientation is accepted: black and white holes, flows towards -x or +x
+(``model.orientation``, :mod:`contourkit.symbolic.orientation`); kappa is the
+modulus of the gradient.  ``mode_equation`` linearises in the user's x
+(horizon shifted to 0); the near-horizon S-matrix is computed on
+``canonical_model()`` (black hole, flow towards -x, subsonic exterior at
+x > 0) and mapped back.  ``horizon='none'`` builds a horizonless flow (no
+near-horizon model; direct solver and turning points).
 
 References
 ----------
@@ -34,9 +39,31 @@ import sympy as sp
 
 from . import extensions
 from ._sym import KS, OMEGA, I, exact, exact_expr
-from ..errors import ContourkitWarning, HorizonError, InputError, ModelError
+from ..errors import ContourkitWarning, HorizonError, InputError, ModelError, ScatteringError
 from .equation import ModeEquation, ode_coefficients
+from .orientation import Orientation, transform_coefficients
 from .symmetric import from_symmetric, linearise, to_symmetric
+
+
+def _short(expr, n=80):
+    """An expression as short text for messages (no numpy reprs)."""
+    t = str(expr)
+    return t if len(t) <= n else t[:n - 3] + "..."
+
+
+def _touching_points(f, xs, vals):
+    """Positions where |c0| has a local minimum that reaches zero without a sign change (touching)."""
+    from scipy.optimize import minimize_scalar
+    scale = float(np.max(np.abs(vals))) or 1.0
+    out = []
+    a = np.abs(vals)
+    for i in range(1, len(xs) - 1):
+        if a[i] <= a[i - 1] and a[i] <= a[i + 1] and a[i] < 1e-2 * scale and vals[i - 1] * vals[i + 1] > 0:
+            r = minimize_scalar(lambda t: abs(float(np.real(f(t)))), bounds=(xs[i - 1], xs[i + 1]),
+                                method="bounded", options={"xatol": 1e-12})
+            if abs(float(np.real(f(r.x)))) <= 1e-9 * scale:
+                out.append(float(r.x))
+    return out
 
 
 
@@ -50,12 +77,29 @@ def _normalise_parameters(parameters):
     return out
 
 
-def _profile_substitutions(profiles, x, params):
+def _align(params, exprs):
+    """Key each parameter by the symbol of the same name in the expressions (a symbol with assumptions
+    and a plain one of the same name are different to sympy)."""
+    names = {}
+    for e in exprs:
+        for s in sp.sympify(e).free_symbols:
+            names.setdefault(s.name, s)
+    return {names.get(s.name, s): v for s, v in params.items()}
+
+
+def _symbolic_source(D, profiles, x, omega, k):
+    """The dispersion function with the profiles substituted and the parameters left as symbols."""
+    subs = _profile_substitutions(profiles, x, {}, strict=False)
+    e = sp.sympify(D).subs(subs).subs(omega, OMEGA).subs(k, KS)
+    return e.subs(x, sp.Symbol("x")) if x != sp.Symbol("x") else e
+
+
+def _profile_substitutions(profiles, x, params, strict=True):
     subs = {}
     for name, expr in (profiles or {}).items():
         e = sp.sympify(expr).subs(params)
         extra = e.free_symbols - {x}
-        if extra:
+        if extra and strict:
             raise ModelError(f"the profile {name} contains the symbol(s) "
                              f"{', '.join(sorted(map(str, extra)))} that have no value; add them to parameters")
         if isinstance(name, str):
@@ -115,13 +159,26 @@ class HorizonModel:
         self.window = tuple(float(v) for v in window)
         self.dispersion = sp.expand(sum(gm * (I * KS) ** m for m, gm in enumerate(self.g)))
         self.order = len(self.g) - 1
+        self._eq_cache = {}
+        self._canonical = None
+        if isinstance(horizon, str):
+            if horizon.strip().lower() != "none":
+                raise InputError(f"horizon must be a position, None (find it) or 'none' (a horizonless flow), "
+                                 f"got {horizon!r}")
+            # a horizonless flow: no sonic point, no near-horizon model (direct solver, turning points)
+            self.horizon = None
+            self.kappa = None
+            self.reference = 0.5 * (self.window[0] + self.window[1])
+            self.orientation = self._horizonless_orientation()
+            self._lin = None
+            return
         if horizon is None:
             horizon = self._find_horizon()
         self.horizon = horizon
-        self.kappa = self._surface_gravity(horizon)
+        self.orientation = self._orientation(horizon)
+        self.kappa = abs(self.orientation.slope)
         # exact decimals of any Float (a numerically located horizon), never a guessed rational
         self._lin = [(exact_expr(a), exact_expr(b)) for a, b in linearise(self.g, x, horizon)]
-        self._eq_cache = {}
 
     # -- constructors -------------------------------------------------
     @classmethod
@@ -135,7 +192,14 @@ class HorizonModel:
         positive-norm modes have ``dD/domega > 0``.
         """
         params = _normalise_parameters(parameters)
+        params = _align(params, [D, *(profiles or {}).values()])
         subs = _profile_substitutions(profiles, x, params)
+        try:
+            Dsym = sp.expand(_symbolic_source(D, profiles, x, omega, k))
+            gsym = [sp.expand(sp.Poly(Dsym, KS).coeff_monomial(KS ** m) * (-I) ** m)
+                    for m in range(sp.Poly(Dsym, KS).degree() + 1)]
+        except (sp.PolynomialError, TypeError, ValueError):
+            gsym = None
         D = sp.sympify(D).subs(params).subs(subs).subs(omega, OMEGA).subs(k, KS)
         D = D.subs(x, sp.Symbol("x")) if x != sp.Symbol("x") else D
         X = sp.Symbol("x")
@@ -154,7 +218,10 @@ class HorizonModel:
         if n < 1:
             raise ModelError("the dispersion relation does not depend on k")
         g = [sp.expand(poly.coeff_monomial(KS ** m) * (-I) ** m) for m in range(n + 1)]
-        return cls(g, omega=OMEGA, x=X, profiles=profiles, parameters=params, **kw)
+        model = cls(g, omega=OMEGA, x=X, profiles=profiles, parameters=params, **kw)
+        model._symbolic_g = gsym
+        model._symbolic_params = params
+        return model
 
     @classmethod
     def from_ode(cls, expr, y, x, *, profiles=None, parameters=None, frequency=None, horizon=None, **kw):
@@ -178,23 +245,51 @@ class HorizonModel:
         model = cls(to_symmetric(coeffs, X), omega=OMEGA, x=X, horizon=horizon,
                     profiles=profiles, parameters=params, **kw)
         model._default_omega = omega_val
+        try:
+            ssub = _profile_substitutions(profiles, x, {}, strict=False)
+            csym = [sp.sympify(c).subs(ssub).doit().subs(w, OMEGA).subs(x, X) for c in ode_coefficients(expr, y, x)]
+            model._symbolic_g = to_symmetric(csym, X)
+            model._symbolic_params = params
+        except (sp.PolynomialError, TypeError, ValueError):  # pragma: no cover - symbolic extra only
+            pass
         return model
 
     # -- horizon ------------------------------------------------------
     def _low_frequency_part(self):
+        """(d, c0, c1, c2): coefficients of k^d, omega k^(d-1), omega^2 k^(d-2) in the lowest-degree part of D."""
+        if not self.dispersion.has(OMEGA):
+            raise HorizonError(
+                f"the dispersion function {_short(self.dispersion)} does not contain the frequency omega: it has "
+                f"no group velocity, so it has no sonic horizon; write it as D(omega, k; x) with the frequency "
+                f"(e.g. (omega - v k)^2 - c^2 k^2), or, for one stationary equation without a horizon, use "
+                f"ModeEquation.from_ode")
         poly = sp.Poly(self.dispersion, OMEGA, KS)
         terms = [(m, c) for m, c in poly.terms() if sp.simplify(c) != 0]
         if not terms:
             raise HorizonError("the dispersion function vanishes identically")
         d = min(sum(m) for m, _ in terms)
         part = {m: c for m, c in terms if sum(m) == d}
-        return d, part.get((0, d), sp.Integer(0)), part.get((1, d - 1), sp.Integer(0))
+        if d == 0:
+            raise HorizonError(
+                f"the lowest-order part of the dispersion function in (omega, k) is {_short(part[(0, 0)])}, a "
+                f"term with neither omega nor k (a gap or potential term): the long-wavelength branch is not a "
+                f"sound wave omega = lambda(x) k, so contourkit's sonic horizon is not defined; such a point is a "
+                f"turning point of the equation (Airy- or Budden-type), not a horizon: use the equation as "
+                f"given with ModeEquation.from_ode(...) and its contours, or add the sound branch to D")
+        return (d, part.get((0, d), sp.Integer(0)), part.get((1, d - 1), sp.Integer(0)),
+                part.get((2, d - 2), sp.Integer(0)) if d >= 2 else sp.Integer(0))
 
     def _find_horizon(self):
-        d, c0, c1 = self._low_frequency_part()
+        d, c0, c1, _ = self._low_frequency_part()
+        if c1 == 0:
+            raise HorizonError(
+                f"the lowest-order part of the dispersion function has no omega*k term (it is "
+                f"{_short(c0)} k^{d} + ...): the low-frequency branch omega = lambda(x) k is not defined, so "
+                f"neither is a horizon; normalise D so that its sound branch reads (omega - v k)^2 - c^2 k^2 + ...")
         if c0 == 0 or not c0.has(self.x):
             raise HorizonError("no horizon: the low-frequency branch never has zero group velocity "
-                               "(the coefficient of the lowest power of k at omega = 0 does not vary with x)")
+                               "(the coefficient of the lowest power of k at omega = 0 does not vary with x); "
+                               "for a horizonless flow give horizon='none'")
         f = sp.lambdify(self.x, c0, "numpy")
         a, b = self.window
         xs = np.linspace(a, b, 4001)
@@ -203,25 +298,37 @@ class HorizonModel:
         roots = []
         from scipy.optimize import brentq
         for i in range(len(xs) - 1):
-            if vals[i] == 0:
-                roots.append(xs[i])
+            if vals[i] == 0 and (i == 0 or vals[i - 1] * vals[i + 1] < 0):
+                roots.append(float(xs[i]))
             elif vals[i] * vals[i + 1] < 0:
-                roots.append(brentq(lambda t: float(np.real(f(t))), xs[i], xs[i + 1], xtol=1e-15, rtol=1e-15))
-        if not roots:
-            raise HorizonError(f"no horizon in the window {self.window}: the low-frequency group velocity "
-                               f"({c0}) does not change sign; widen window=(a, b) or check the profile")
-        good = []
+                roots.append(float(brentq(lambda t: float(np.real(f(t))), xs[i], xs[i + 1], xtol=1e-15, rtol=1e-15)))
+        good, degenerate = [], []
         for r in roots:
             try:
                 good.append((abs(r), r, self._surface_gravity(r)))
             except HorizonError:
-                continue
+                degenerate.append(r)
         if not good:
-            raise HorizonError(f"the horizon(s) at x = {roots} have the exterior on the x < 0 side; contourkit's "
-                               f"convention puts the subsonic exterior at x > 0: reflect the profile (x -> -x)")
+            touch = _touching_points(f, xs, vals)
+            if degenerate:
+                raise HorizonError(
+                    f"the only sonic point{'s' if len(degenerate) > 1 else ''} (x = "
+                    f"{', '.join(f'{r:.6g}' for r in degenerate)}) {'are' if len(degenerate) > 1 else 'is'} "
+                    f"degenerate: the flow crosses the wave speed with zero gradient there, so kappa = 0 and the "
+                    f"near-horizon linearisation has no x-dependence; give the profile a non-zero gradient at its "
+                    f"sonic point (e.g. v = -1 + kappa x + ...)")
+            if touch:
+                raise HorizonError(
+                    f"the flow speed touches the wave speed without crossing it at x = "
+                    f"{', '.join(f'{t:.6g}' for t in touch)}: that is not a horizon (the flow is subsonic, or "
+                    f"supersonic, on both sides); change the profile so that it crosses, or give horizon='none' to "
+                    f"treat it as a horizonless flow (contourkit.direct.scatter, model.turning_points)")
+            raise HorizonError(f"no horizon in the window ({a:g}, {b:g}): the low-frequency group velocity "
+                               f"({_short(c0)}) does not change sign; widen window=(a, b), check the profile, "
+                               f"or give horizon='none' for a horizonless flow")
         good.sort()
         if len(good) > 1:
-            warnings.warn(f"several horizons found at {[g[1] for g in good]}; using x = {good[0][1]} "
+            warnings.warn(f"several horizons found at {[round(g[1], 10) for g in good]}; using x = {good[0][1]:.10g} "
                           f"(give horizon=... to choose another)", ContourkitWarning, stacklevel=3)
         import mpmath
         fm = sp.lambdify(self.x, c0, "mpmath")
@@ -233,17 +340,68 @@ class HorizonModel:
                 root = sp.Float(good[0][1], 17)
         return float(root) if abs(root) > 1e-30 else 0.0
 
-    def _surface_gravity(self, xh):
-        d, c0, c1 = self._low_frequency_part()
+    def _signed_slope(self, xh):
+        """``d lambda_0/dx`` at xh (see :mod:`contourkit.symbolic.orientation`); HorizonError if it is not usable."""
+        d, c0, c1, _ = self._low_frequency_part()
         if c1 == 0:
             raise HorizonError("the low-frequency part of the dispersion relation has no omega*k term; "
                                "contourkit cannot define the group velocity of the low-frequency branch")
+        c1h = complex(sp.N(c1.subs(self.x, xh), 30))
+        if abs(c1h) == 0:
+            raise HorizonError(f"at x = {xh:.6g} the omega*k coefficient of the low-frequency part vanishes: the "
+                               f"flow is at rest there and the sonic point is not a horizon")
         slope = -sp.diff(c0, self.x) / c1
         val = complex(sp.N(slope.subs(self.x, xh), 30))
-        if abs(val.imag) > 1e-12 * max(1.0, abs(val.real)) or val.real <= 0:
-            raise HorizonError(f"at x = {xh} the low-frequency group velocity has slope {val}; a horizon with "
-                               f"the exterior at x > 0 needs a positive slope: reflect the profile (x -> -x)")
+        if abs(val.imag) > 1e-12 * max(1.0, abs(val.real)) or not np.isfinite(val.real):
+            raise HorizonError(f"at x = {xh:.6g} the low-frequency group velocity has the complex slope "
+                               f"{val.real:.6g}{val.imag:+.6g}j: the dispersion function is not real there")
+        if abs(val.real) <= 1e-9:
+            raise HorizonError(f"the sonic point at x = {xh:.6g} is degenerate (zero gradient, slope "
+                               f"{val.real:.2g}): kappa = 0")
         return val.real
+
+    def _surface_gravity(self, xh):
+        """kappa = |d lambda_0/dx| at xh (any sign of flow and gradient)."""
+        return abs(self._signed_slope(xh))
+
+    def _orientation(self, xh):
+        slope = self._signed_slope(xh)
+        d, c0, c1, c2 = self._low_frequency_part()
+        lam1 = complex(sp.N((-c1 / c2).subs(self.x, xh), 30)).real if c2 != 0 else 0.0
+        if lam1 != 0:
+            return Orientation.from_signs(slope, 1 if lam1 > 0 else -1,
+                                          note="flow direction from the co-propagating branch -c1/c2")
+        return Orientation.from_signs(slope, -1, note="flow direction assumed towards -x (no omega^2 term)")
+
+    def _horizonless_orientation(self):
+        d, c0, c1, c2 = self._low_frequency_part()
+        x0 = 0.5 * (self.window[0] + self.window[1])
+        lam1 = complex(sp.N((-c1 / c2).subs(self.x, x0), 30)).real if c2 != 0 else 0.0
+        return Orientation.horizonless(1 if lam1 > 0 else -1, note=f"flow direction at x = {x0:g}")
+
+    def canonical_model(self):
+        """The same model in the canonical orientation (black hole, flow towards -x, subsonic side x > 0).
+
+        Mirror image and/or time reverse of this one (see
+        :mod:`contourkit.symbolic.orientation`); ``self`` if it is canonical already.
+        """
+        o = self.orientation
+        if o.canonical or o.hole == "none":
+            return self
+        if getattr(self, "_canonical", None) is None:
+            sk, sx = o.transform
+            g = transform_coefficients(self.g, self.x, o.transform)
+            a, b = self.window
+            w = (a, b) if sx == 1 else (-b, -a)
+            m = HorizonModel(g, omega=self.omega, x=self.x, name=self.name, horizon=sx * self.horizon, window=w,
+                             parameters=self.parameters, description=self.description)
+            if not m.orientation.canonical:  # pragma: no cover - the table in orientation.py is exhaustive
+                raise HorizonError(f"internal error: the transformed model is {m.orientation}")
+            for key in ("flow_D", "Lambda", "branch"):
+                if hasattr(self, key):
+                    setattr(m, key, getattr(self, key))
+            self._canonical = m
+        return self._canonical
 
     def __getstate__(self):
         # caches hold lambdified functions (not picklable); workers rebuild them
@@ -265,16 +423,48 @@ class HorizonModel:
 
     @property
     def hawking_temperature(self):
-        """T_H = kappa / (2 pi)."""
-        return self.kappa / (2 * np.pi)
+        """T_H = kappa / (2 pi) (None for a horizonless flow)."""
+        return None if self.kappa is None else self.kappa / (2 * np.pi)
+
+    @property
+    def horizonless(self):
+        """True for a flow without a sonic horizon (built with horizon='none')."""
+        return self.horizon is None
+
+    def turning_points(self, omega, **kw):
+        """Dispersive turning points on the real axis at frequency omega; see
+        :func:`contourkit.profiles.turning.turning_points`."""
+        return extensions.call("turning_points", self, omega, **kw)
+
+    def symbolic(self, **kw):
+        """Formulas with the parameters kept as symbols; see :func:`contourkit.symbolic.formulas.derive`."""
+        from .formulas import derive
+        return derive(self, **kw)
 
     # -- near-horizon equation ----------------------------------------
-    def mode_equation(self, omega):
-        """The linearised near-horizon ModeEquation at frequency omega (horizon at x = 0)."""
+    def mode_equation(self, omega, *, at=None):
+        """The linearised near-horizon ModeEquation at frequency omega (horizon at x = 0).
+
+        ``at=x0`` linearises at x0 instead (shifted to x = 0), e.g. at a dispersive
+        turning point of ``model.turning_points(omega)``: its k-space equation
+        has the double saddle k_t at x = 0.
+        """
+        if at is not None:
+            x0 = exact(at)
+            # coefficients at x0 as 40-digit decimals (closed forms at a numeric x0 grow without bound)
+            lin = [(exact_expr(sp.N(a, 40)), exact_expr(sp.N(b, 40))) for a, b in linearise(self.g, self.x, x0)]
+            g_lin = [sp.expand((a + b * self.x).subs(OMEGA, exact(omega))) for a, b in lin]
+            left = from_symmetric(g_lin, self.x)
+            return ModeEquation([sp.expand(c).subs(self.x, 0) for c in left],
+                                [sp.expand(sp.diff(c, self.x)) for c in left], kappa=None, horizon=float(at),
+                                note=f"symmetric form linearised at x0 = {float(at)}, shifted to x = 0")
         if omega is None:
             omega = getattr(self, "_default_omega", None)
             if omega is None:
                 raise InputError("give the frequency: model.mode_equation(omega)")
+        if self._lin is None:
+            raise HorizonError("a horizonless flow has no near-horizon equation; use contourkit.direct.scatter "
+                               "for its S-matrix and model.turning_points(omega) for its dispersive turning points")
         w = exact(omega)
         key = w
         if key not in self._eq_cache:
@@ -294,7 +484,19 @@ class HorizonModel:
 
     # -- physics entry points (thin wrappers over functional layers) --
     def scatter(self, omega, **kw):
-        """Near-horizon S-matrix at one frequency; see :func:`contourkit.scattering.smatrix.scatter`."""
+        """Near-horizon S-matrix at one frequency; see :func:`contourkit.scattering.smatrix.scatter`.
+
+        A horizonless flow scatters at its dispersive turning point instead
+        (:func:`contourkit.scattering.conversion.scatter_turning_point`); it must have exactly one.
+        """
+        if self.horizon is None:
+            tps = self.turning_points(omega)
+            if len(tps) != 1:
+                raise ScatteringError(
+                    f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "
+                    f"({', '.join(f'x = {t.x:.6g}' for t in tps) or 'none'}); the contour method scatters at "
+                    f"exactly one; use contourkit.direct.scatter for the full profile")
+            return extensions.call("scatter_turning_point", self, omega, tps[0], **kw)
         return extensions.call("scatter", self, omega, **kw)
 
     def spectrum(self, omegas, **kw):
@@ -302,4 +504,7 @@ class HorizonModel:
         return extensions.call("spectrum", self, omegas, **kw)
 
     def __repr__(self):
-        return f"HorizonModel({self.name or 'unnamed'}, horizon={self.horizon}, kappa={self.kappa})"
+        if self.horizon is None:
+            return f"HorizonModel({self.name or 'unnamed'}, horizonless)"
+        return (f"HorizonModel({self.name or 'unnamed'}, horizon={self.horizon}, kappa={self.kappa}, "
+                f"{self.orientation.hole} hole)")

@@ -217,7 +217,9 @@ def _profiles(src, data, params, values):
 def _horizon(src, data):
     t = src.table(data, "horizon")
     kw = {}
-    if "position" in t:
+    if "position" in t and t["position"] == "none":
+        kw["horizon"] = "none"          # a horizonless flow (direct solver, turning points)
+    elif "position" in t:
         kw["horizon"] = float(src.number(t["position"], "[horizon] position"))
     if "window" in t:
         w = t["window"]
