@@ -53,7 +53,7 @@ import scipy.linalg
 import sympy as sp
 
 from ..errors import AccuracyError, InputError
-from ._odes import integrate_double
+from ._odes import integrate_gl
 from .results import ModeList, QuasinormalMode
 
 __all__ = ["quasinormal_modes", "spectral_candidates", "wronskian"]
@@ -159,27 +159,38 @@ def _spectral_horizon(pot, N):
     return M0, M1, M2
 
 
+def _decay_rate(pot, e):
+    """Exponential decay rate beta of U = V - V_end at an end (None: faster than exponential)."""
+    y = pot.x
+    U = pot.V - (pot._VR_exact if e.side > 0 else pot._VL_exact)
+    try:
+        lim = sp.limit(sp.log(U ** 2) / (2 * e.side * y), y, e.side * sp.oo)
+        if lim == -sp.oo:
+            return None
+        b = -float(lim)
+        if math.isfinite(b) and b > 0:
+            return b
+    except Exception:   # sympy cannot take the limit: estimate numerically below
+        pass
+    t = np.linspace(0, 200 * pot.scale, 2001)
+    ys = e.y_base + e.side * t
+    with np.errstate(all="ignore"):
+        a = np.array([e.U_abs(v) for v in ys])
+    amp = max(pot.amplitude, 1e-300)
+    sel = (a < 1e-6 * amp) & (a > 1e-14 * amp)
+    if np.count_nonzero(sel) < 5:
+        return None
+    slope = np.polyfit(t[sel], np.log(a[sel]), 2)
+    if slope[0] < -1e-3 * abs(slope[1]) / max(t[sel].max(), 1e-300):
+        return None                    # curving down: faster than exponential
+    return -slope[1] if slope[1] < 0 else None
+
+
 def _decay_lambda(pot):
     """lambda = 2/beta, beta the slowest exponential decay rate of the tails."""
     if hasattr(pot, "_qnm_lambda"):
         return pot._qnm_lambda
-    betas = []
-    for e in (pot.left, pot.right):
-        t = np.linspace(0, 200 * pot.scale, 40001)
-        ys = e.y_base + e.side * t
-        with np.errstate(all="ignore"):
-            a = np.array([e.U_abs(v) for v in ys[::20]])
-        ts = t[::20]
-        amp = max(pot.amplitude, 1e-300)
-        i1 = np.nonzero(a < 1e-6 * amp)[0]
-        i2 = np.nonzero(a < 1e-12 * amp)[0]
-        if len(i1) == 0 or len(i2) == 0 or a[i2[0]] == 0 or a[i1[0]] == 0:
-            betas.append(None)
-            continue
-        b = math.log(a[i1[0]] / a[i2[0]]) / (ts[i2[0]] - ts[i1[0]])
-        j = min(i2[0] + 20, len(a) - 1)
-        b2 = math.log(a[i2[0]] / a[j]) / (ts[j] - ts[i2[0]]) if a[j] > 0 else 2 * b
-        betas.append(b if b2 < 1.5 * b else None)   # None: faster than exponential
+    betas = [_decay_rate(pot, e) for e in (pot.left, pot.right)]
     width = pot.core[1] - pot.core[0]
     finite = [b for b in betas if b]
     lam = 2.0 / min(finite) if finite else max(width / 4, 0.5)
@@ -214,27 +225,41 @@ def _qep(M0, M1, M2):
     return w[np.isfinite(w) & (np.abs(w) < 1e6)]
 
 
-def spectral_candidates(pot, *, N=(32, 44)):
-    """Converged eigenvalues k (Im k < 0, Re k >= 0) of the spectral discretisation."""
+def _backward_error(M0, M1, M2, k):
+    Q = M0 + k * M1 + k * k * M2
+    sv = np.linalg.svd(Q, compute_uv=False)
+    scale = np.linalg.norm(M0, 2) + abs(k) * np.linalg.norm(M1, 2) + abs(k) ** 2 * np.linalg.norm(M2, 2)
+    return float(sv[-1] / scale)
+
+
+def spectral_candidates(pot, *, N=(32, 44), details=False):
+    """Converged eigenvalues k (Im k < 0, Re k >= 0) of the spectral discretisation.
+
+    With ``details``, tuples (k, |k(N1) - k(N2)|, backward error at N2).
+    """
     _check(pot)
     V0 = pot.limits[1]
     make = (lambda n: _spectral_horizon(pot, n)) if pot.left.kind == "horizon" \
         else (lambda n: _spectral_tortoise(pot, n, V0))
-    ev = [_qep(*make(n)) for n in N]
+    mats = [make(n) for n in N]
+    ev = [_qep(*m) for m in mats]
     out = []
     for k in ev[1]:
         if not (k.imag < 0 and k.real >= -1e-7 * abs(k)):
             continue
         d = np.min(np.abs(ev[0] - k)) if ev[0].size else np.inf
         if d < 2e-2 * max(abs(k), 1e-3):
-            out.append(complex(k.real if k.real > 1e-9 * abs(k) else 0.0, k.imag) if abs(k.real) < 1e-9 * abs(k)
-                       else complex(k))
-    out.sort(key=lambda k: (abs(k.imag), k.real))
+            if abs(k.real) < 1e-9 * abs(k):
+                k = complex(0.0, k.imag)
+            out.append((complex(k), float(d)))
+    out.sort(key=lambda t: (abs(t[0].imag), t[0].real))
     uniq = []
-    for k in out:
-        if all(abs(k - q) > 1e-6 * max(abs(k), 1e-3) for q in uniq):
-            uniq.append(k)
-    return uniq
+    for k, d in out:
+        if all(abs(k - q[0]) > 1e-6 * max(abs(k), 1e-3) for q in uniq):
+            uniq.append((k, d))
+    if details:
+        return [(k, d, _backward_error(*mats[1], k)) for k, d in uniq]
+    return [k for k, _ in uniq]
 
 
 # ------------------------------------------------------------------ Wronskian
@@ -251,14 +276,14 @@ def _config(pot, k, variant):
         y_far = pot.right.start_point(k, tol, direction=e, base=y_m)
         if variant == 1:
             y_far = y_m + 1.5 * (y_far - y_m)
-        return {"y_m": y_m, "ends": [(pot.right, y_far)], "rtol": 1e-12 if variant == 0 else 1e-13}
+        return {"y_m": y_m, "ends": [(pot.right, y_far)], "density": 2.0 if variant == 0 else 3.0}
     frac = 0.5 if variant == 0 else 0.65
     theta = ang + frac * (math.pi / 2 - ang)
     e = cmath.exp(1j * theta)
     mid = 0.5 * (pot.core[0] + pot.core[1]) + (0.0 if variant == 0 else 0.1 * pot.scale)
     yR = pot.right.start_point(k, tol, direction=e, base=mid)
     yL = pot.left.start_point(k, tol, direction=e, base=mid)
-    return {"y_m": mid, "ends": [(pot.left, yL), (pot.right, yR)], "rtol": 1e-12 if variant == 0 else 1e-13}
+    return {"y_m": mid, "ends": [(pot.left, yL), (pot.right, yR)], "density": 2.0 if variant == 0 else 3.0}
 
 
 def wronskian(pot, k, cfg, V0=0.0):
@@ -272,11 +297,12 @@ def wronskian(pot, k, cfg, V0=0.0):
         sols.append((st, 0.0))
     for end, y0 in cfg["ends"]:
         st, _, _ = end.state(k, y0, tol=tol, with_phase=False)
-        (u, w), ls, _ = integrate_double(pot._coef, om2, y0, y_m, st, rtol=cfg["rtol"])
+        (u, w), ls, _ = integrate_gl(pot._coef_vec, om2, y0, y_m, st, density=cfg["density"])
         sols.append(((u, w), ls))
     (a, la), (b, lb) = sols
     W = (a[0] * b[1] - a[1] * b[0])
-    norm = abs(a[0] * b[1]) + abs(a[1] * b[0])
+    ak = max(abs(k), 1e-300)
+    norm = math.hypot(abs(a[0]) * ak, abs(a[1])) * math.hypot(abs(b[0]) * ak, abs(b[1])) / ak
     return W * cmath.exp(la + lb), abs(W) / norm if norm > 0 else math.inf
 
 
@@ -339,16 +365,27 @@ def quasinormal_modes(pot, *, n_max=2, region=None):
         raise InputError(f"n_max must be a non-negative integer (got {n_max!r}).")
     box = _parse_region(region)
     V0 = _check(pot)
-    cands = spectral_candidates(pot)
+    cands = spectral_candidates(pot, details=True)
     to_omega = (lambda k: k) if V0 == 0 else (lambda k: complex(np.sqrt(complex(k * k + V0))))
     if box is not None:
         mr, mi = 0.05 * (box[1] - box[0]), 0.05 * (box[3] - box[2])
-        cands = [k for k in cands if box[0] - mr <= to_omega(k).real <= box[1] + mr
-                 and box[2] - mi <= to_omega(k).imag <= box[3] + mi]
+        cands = [c for c in cands if box[0] - mr <= to_omega(c[0]).real <= box[1] + mr
+                 and box[2] - mi <= to_omega(c[0]).imag <= box[3] + mi]
     found, modes = [], []
-    for k in cands:
+    notes = set()
+    for k, dspec, bwd in cands:
         if box is None and len(modes) > n_max and abs(k.imag) > max(abs(m[0].imag) for m in modes[: n_max + 1]):
             break
+        if pot.left.kind == "asymptotic" and math.pi / 2 + cmath.phase(k) < 0.2:
+            # Exponential tails and k near the negative imaginary axis: no ray with Re y -> inf
+            # makes the outgoing wave subdominant; keep the spectral eigenvalue.
+            if all(abs(k - q) > 1e-7 * abs(k) for q in found) and dspec < 1e-6 * abs(k):
+                found.append(k)
+                modes.append((k, k + 10 * dspec, k, bwd))
+                modes.sort(key=lambda m: (abs(m[0].imag), m[0].real))
+                notes.add("modes near the imaginary axis are spectral eigenvalues (error: two "
+                          "resolutions; residual: backward error of the discretisation)")
+            continue
         try:
             cfgA = _config(pot, k, 0)
             kA, okA = _polish(pot, k, cfgA, found, V0, tol=1e-11)
@@ -382,5 +419,6 @@ def quasinormal_modes(pot, *, n_max=2, region=None):
                + f" ({len(cands)} converged spectral eigenvalue(s) in the lower half plane)")
     else:
         msg = (f"{len(modes)} mode(s); overtone n counts the modes found below each one"
-               + (" (inside a region the count starts at the lowest mode in it)" if box else ""))
+               + (" (inside a region the count starts at the lowest mode in it)" if box else "")
+               + "".join("; " + n for n in sorted(notes)))
     return ModeList(modes, message=msg, method=method)
