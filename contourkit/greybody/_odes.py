@@ -165,12 +165,14 @@ def path_mesh(coef_vec, omega2, y_a, y_b, *, density=1.0, min_steps=12, max_step
     return np.unique(np.concatenate([ts, extra]))
 
 
-def integrate_gl(coef_vec, omega2, y_a, y_b, state, *, density=1.0, stages=_GL_STAGES, mesh=None):
+def integrate_gl(coef_vec, omega2, y_a, y_b, state, *, density=1.0, stages=_GL_STAGES, mesh=None,
+                 path=False):
     """Integrate the state from y_a to y_b with Gauss-Legendre steps in double precision.
 
     All step propagators are built at once (one batched linear solve); the
     product is taken with rescaling.  Returns ((u, w), log_scale, mesh) where
-    mesh is the array of step points (complex y).
+    mesh is the array of step points (complex y); with ``path``, also the
+    arrays of log-scales and states at the mesh points.
     """
     a, b, c = _tableau_np(stages)
     delta = complex(y_b) - complex(y_a)
@@ -200,8 +202,11 @@ def integrate_gl(coef_vec, omega2, y_a, y_b, state, *, density=1.0, stages=_GL_S
     P22 = 1 + np.sum(hb * q[:, :, 1], axis=1)
     u, w = complex(state[0]), complex(state[1])
     log_scale = 0.0
+    hist = [(0.0, u, w)] if path else None
     for m11, m12, m21, m22 in zip(P11.tolist(), P12.tolist(), P21.tolist(), P22.tolist()):
         u, w = m11 * u + m12 * w, m21 * u + m22 * w
+        if path:
+            hist.append((log_scale, u, w))
         nrm = abs(u) + abs(w)
         if nrm > 1e100 or nrm < 1e-100:
             if nrm == 0.0 or not math.isfinite(nrm):
@@ -211,6 +216,9 @@ def integrate_gl(coef_vec, omega2, y_a, y_b, state, *, density=1.0, stages=_GL_S
             log_scale += math.log(nrm)
     if not (math.isfinite(abs(u)) and math.isfinite(abs(w))):
         raise AccuracyError("the solution became non-finite during the integration.")
+    if path:
+        arr = np.array(hist)
+        return (u, w), log_scale, complex(y_a) + ts * delta, arr
     return (u, w), log_scale, complex(y_a) + ts * delta
 
 
