@@ -15,9 +15,9 @@ import mpmath
 import numpy as np
 import sympy as sp
 
-from ..errors import InputError, ModelError
+from ..errors import InputError
 from ._ends import AsymptoticEnd, HorizonEnd
-from ._series import laurent_coefficients, singular_points, taylor_coefficients, to_mp
+from ._series import laurent_coefficients, singular_points, taylor_coefficients
 
 __all__ = ["TortoisePotential", "potential"]
 
@@ -473,7 +473,6 @@ class TortoisePotential:
         -------
         (fig, ax)
         """
-        import matplotlib
         if ax is None:
             import matplotlib.pyplot as plt
             fig, ax = plt.subplots(figsize=(6, 4))

@@ -26,7 +26,7 @@ import numbers
 import mpmath
 import numpy as np
 
-from ..errors import AccuracyError, InputError
+from ..errors import InputError
 from ._odes import integrate_gl, integrate_mp, path_mesh
 from .results import TransmissionResult
 
