@@ -82,3 +82,19 @@ def test_refusals():
     for bad in (dict(n_max=-1), dict(n_max=1.5), dict(region=(1, 0, 0, 1)), dict(region="box")):
         with pytest.raises(InputError):
             pot.quasinormal_modes(**bad)
+
+
+def test_horizon_with_exponential_tail():
+    # dx/dx* = tanh y (horizon at y = 0), V = 2 tanh^2 y / cosh^2 y: with sinh y = exp(x*) this
+    # is V = (1/2) / cosh^2(x*), the Poschl-Teller barrier U0 = 1/2, a = 1, fundamental mode
+    # 1/2 - i/2 (common practice, from memory). Exercises the horizon end with a non-rational
+    # D and an exponentially decaying far tail (the route of a model-derived potential).
+    y = sp.Symbol("y", real=True)
+    pot = gb.TortoisePotential(2 * sp.tanh(y) ** 2 / sp.cosh(y) ** 2, y, 1 / sp.tanh(y), horizon=0)
+    modes = pot.quasinormal_modes(n_max=0)
+    assert abs(modes[0].omega - (0.5 - 0.5j)) < 1e-8
+    assert modes[0].residual < 1e-10
+    # the same potential's transmission equals the Poschl-Teller formula (L&L 25.4)
+    from .test_transmission import pt_barrier_exact
+    g = pot.transmission(0.7).transmission
+    assert abs(g - float(pt_barrier_exact(0.5, 1.0, 0.7))) < 1e-10
