@@ -318,7 +318,7 @@ def cavity_cutoff(model, window=None, *, samples=33):
     (the unstable modes have ``0 < Re omega`` below it).  A model built by
     :func:`contourkit.catalogue.horizon_pair` carries it as
     ``cavity_omega_max``, which is used when present; otherwise the local
-    cut-offs (:func:`contourkit.cutoff.cutoffs` of ``D(omega, k; x)`` at fixed
+    cut-offs (:func:`contourkit.profiles.cutoff.cutoffs` of ``D(omega, k; x)`` at fixed
     x) are sampled at ``samples`` points and the largest is refined by a
     bounded scalar maximisation.
 

@@ -14,7 +14,7 @@ import sympy as sp
 
 from contourkit import errors
 from contourkit.catalogue import horizon_pair
-from contourkit.horizon import HorizonModel
+from contourkit.symbolic.horizon import HorizonModel
 from contourkit.profiles.timedomain import (_derivatives, _matrices, evolve, fd_weights, growth_rate, matrix_pencil,
                                    time_domain_operator)
 from contourkit.profiles.unstable import unstable_modes

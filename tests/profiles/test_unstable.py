@@ -175,7 +175,7 @@ def test_cavity_cutoff_of_a_general_model():
     # of the deepest point, Lambda (u - s) sqrt(s^2 - 1), s = (u + sqrt(u^2 + 8))/4 (Macher and
     # Parentani 2009; REFERENCES.md), u = 1 + D tanh^2(kappa L/D)
     import sympy as sp
-    from contourkit.horizon import HorizonModel
+    from contourkit.symbolic.horizon import HorizonModel
     w, k, x = sp.symbols("omega k x")
     L = 2.5
     v = -1 + sp.Rational(1, 2) * sp.tanh((x - L) / 2) * sp.tanh((x + L) / 2)
