@@ -16,7 +16,7 @@ import sys
 from .errors import (AccuracyError, AccuracyWarning, CoalescenceWarning, ContourError,
                      ContourkitError, ContourkitWarning, HorizonError, InputError,
                      ModelError, ModelFileError, ScatteringError)
-from . import symbolic, geometry, evaluation, scattering, profiles, scans
+from . import symbolic, geometry, evaluation, scattering, profiles, greybody, scans
 from .symbolic import HorizonModel, ModeEquation, extensions, load_model
 from .geometry import Contour
 from .profiles import compare, direct

@@ -51,3 +51,10 @@ def transmission(V, x, omega, *, parameters=None, rtol=1e-10, dps=None):
     True
     """
     return potential(V, x, parameters=parameters).transmission(omega, rtol=rtol, dps=dps)
+
+# model potentials (the normal form of a HorizonModel's long-wavelength equation)
+from ..symbolic import extensions as _extensions  # noqa: E402
+from .modelpotential import EffectivePotential, ModelTransmission, effective_potential  # noqa: E402
+
+_extensions.provide("effective_potential", effective_potential)
+__all__ += ["EffectivePotential", "ModelTransmission", "effective_potential"]

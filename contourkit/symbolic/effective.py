@@ -80,8 +80,9 @@ class EffectiveForm:
         ``f = discriminant^(1/4)``; ``chi = psi / f``.
     potential : sympy expression
         V(x) in the normal form ``psi_** + (omega^2 - V) psi = 0``.
-    horizon : float
+    horizon : float or None
         Horizon position in x (x* -> -infinity there); the exterior is x > horizon.
+        None for an equation without horizon (built by :func:`normal_form`).
     sign : int
         +1 or -1: the factor the long-wavelength operator was multiplied by so
         that the omega^2 coefficient W is positive on the exterior.
@@ -101,7 +102,7 @@ class EffectiveForm:
     tortoise: object
     rescaling: sp.Expr
     potential: sp.Expr
-    horizon: float
+    horizon: object
     sign: int = 1
     dropped: list = field(default_factory=list)
 
@@ -251,12 +252,45 @@ def effective_form(model, *, k_perp=0):
             raise InputError(f"k_perp must be a real number or a sympy Symbol, got {k_perp!r}") from None
         if not kp.is_real:
             raise InputError(f"k_perp must be a real number, got {k_perp!r}")
-    x = model.x
     A, beta, C, a, dropped = long_wavelength(model)
+    return normal_form(A, beta, C, a, model.x, k_perp=kp, horizon=float(model.horizon),
+                       probe=_exterior_probe(model), dropped=dropped)
+
+
+def normal_form(A, beta, C, a, x, *, k_perp=0, horizon=None, probe=0, dropped=()):
+    """The three exact steps for given long-wavelength coefficients (no model needed).
+
+    The equation is ``(C phi')' + omega (b phi' + b' phi/2) + (a + A omega^2) phi = 0``
+    with ``b = -i beta`` (dispersion ``A omega^2 + beta omega k - C k^2 + a``).
+
+    Parameters
+    ----------
+    A, beta, C, a : sympy expressions in x
+    x : sympy Symbol
+    k_perp : number or Symbol, keyword-only
+    horizon : float or None
+        Zero of C (x* -> -infinity there); None for an equation without horizon.
+    probe : float
+        A point of the domain where the signs of the coefficients are read.
+    dropped : sequence of str
+        Recorded in the result.
+
+    Returns
+    -------
+    EffectiveForm
+
+    Examples
+    --------
+    >>> import sympy as sp
+    >>> x = sp.Symbol("x"); c = 2 + sp.tanh(x)
+    >>> form = normal_form(sp.Integer(1), sp.Integer(0), c**2, sp.Integer(0), x)
+    >>> sp.simplify(form.tortoise_derivative - 1/c)
+    0
+    """
+    A, beta, C, a = (sp.sympify(v) for v in (A, beta, C, a))
+    kp = k_perp
     disc = sp.simplify(beta ** 2 / 4 + A * C)
     a = sp.simplify(a - kp ** 2 * disc / A) if kp != 0 else a
-    xh = float(model.horizon)
-    probe = _exterior_probe(model)
     W = sp.simplify(disc / C)
     Wp = complex(sp.N(W.subs(x, probe)))
     if abs(Wp.imag) > 1e-12 * abs(Wp) or Wp.real == 0:
@@ -279,7 +313,7 @@ def effective_form(model, *, k_perp=0):
     V = sp.simplify(fdd / f - as_ / Ws)
     return EffectiveForm(x=x, omega=OMEGA, k_perp=kp, A=As, beta=sign * beta, C=Cs, a=as_, discriminant=disc,
                          phase_derivative=Sp, tortoise_derivative=xs1, tortoise=_closed_integral(xs1, x),
-                         rescaling=f, potential=V, horizon=xh, sign=sign, dropped=dropped)
+                         rescaling=f, potential=V, horizon=horizon, sign=sign, dropped=list(dropped))
 
 
 def _exterior_probe(model):

@@ -301,5 +301,13 @@ class HorizonModel:
         """One row per frequency; see :func:`contourkit.scattering.spectra.spectrum`."""
         return extensions.call("spectrum", self, omegas, **kw)
 
+    def effective_potential(self, *, k_perp=0):
+        """Normal form psi'' + (omega^2 - V) psi = 0 of the long-wavelength equation, with numbers.
+
+        See :func:`contourkit.greybody.modelpotential.effective_potential` (the sympy
+        derivation is :func:`contourkit.symbolic.effective.effective_form`).
+        """
+        return extensions.call("effective_potential", self, k_perp=k_perp)
+
     def __repr__(self):
         return f"HorizonModel({self.name or 'unnamed'}, horizon={self.horizon}, kappa={self.kappa})"
