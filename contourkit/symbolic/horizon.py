@@ -183,7 +183,9 @@ class HorizonModel:
     # -- horizon ------------------------------------------------------
     def _low_frequency_part(self):
         poly = sp.Poly(self.dispersion, OMEGA, KS)
-        terms = [(m, c) for m, c in poly.terms() if sp.simplify(c) != 0]
+        # a mass-like term (no omega, no k: a transverse wavenumber) does not move the horizon,
+        # which is that of the massless part (the lowest degree >= 1)
+        terms = [(m, c) for m, c in poly.terms() if sum(m) > 0 and sp.simplify(c) != 0]
         if not terms:
             raise HorizonError("the dispersion function vanishes identically")
         d = min(sum(m) for m, _ in terms)
