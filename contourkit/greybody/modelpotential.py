@@ -45,13 +45,26 @@ from scipy.integrate import solve_ivp
 from scipy.interpolate import CubicSpline
 
 from ..errors import AccuracyWarning, InputError, ModelError
-from ..profiles.planewaves import default_window
+from ..profiles.planewaves import uniform_length
 from ..symbolic.effective import effective_form, normal_form
 
 __all__ = ["EffectivePotential", "ModelTransmission", "effective_potential", "coefficient_potential"]
 
 _DPS = 30
-_DS = 0.01
+_DS = 0.01          # grid step in s (0.05 deep in the horizon region, where V ~ exp(s))
+_DEEP = -6.0
+_NUMPY_FROM = -6.0  # x - x_H >= exp(-6)/kappa: double-precision tabulation
+
+
+def _grid_points(s_min, s_max, horizon):
+    if not horizon or s_min >= _DEEP:
+        n = int(math.ceil((s_max - s_min) / _DS))
+        return np.linspace(s_max - n * _DS, s_max, n + 1)
+    n1 = int(math.ceil((s_max - _DEEP) / _DS))
+    upper = np.linspace(s_max - n1 * _DS, s_max, n1 + 1)
+    n2 = int(math.ceil((upper[0] - s_min) / (5 * _DS)))
+    lower = np.linspace(upper[0] - n2 * 5 * _DS, upper[0], n2 + 1)[:-1]
+    return np.concatenate([lower, upper])
 
 
 @dataclass(repr=False)
@@ -185,6 +198,33 @@ class EffectivePotential:
         self._extend(-25.0)
 
     def _values(self, s):
+        s = np.asarray(s, dtype=float)
+        if self.horizon is not None:
+            # away from the horizon double precision loses at most 1e-16/(x - x_H) relative to the
+            # horizon's cancellation (c^2 - v^2): tabulate there with numpy, nearer with mpmath
+            far = s >= _NUMPY_FROM
+            if np.any(far):
+                h_n, V_n = self._values_numpy(s[far])
+                h_m, V_m = self._values_mp(s[~far])
+                return np.concatenate([h_m, h_n]), np.concatenate([V_m, V_n])
+        return self._values_mp(s)
+
+    def _values_numpy(self, s):
+        if not hasattr(self, "_np_funcs"):
+            self._np_funcs = (sp.lambdify(self.x, self.tortoise_derivative, "numpy"),
+                              sp.lambdify(self.x, self.V, "numpy"))
+        xv = self.x_of_s(s)
+        with np.errstate(all="ignore"):
+            h = (xv - self.horizon) * np.broadcast_to(np.asarray(self._np_funcs[0](xv), dtype=complex), xv.shape)
+            V = np.broadcast_to(np.asarray(self._np_funcs[1](xv), dtype=complex), xv.shape)
+        if np.any(np.abs(h.imag) > 1e-12 * np.abs(h)) or np.any(np.abs(V.imag) > 1e-12 * (1 + np.abs(V))):
+            return self._values_mp(s)
+        h, V = h.real.copy(), V.real.copy()
+        if not (np.all(np.isfinite(h)) and np.all(np.isfinite(V))):
+            return self._values_mp(s)
+        return h, V
+
+    def _values_mp(self, s):
         out_h, out_V = [], []
         with mpmath.workdps(_DPS):
             for sv in s:
@@ -212,8 +252,7 @@ class EffectivePotential:
         """Tabulate ln h and V on [s_min, s_R] (grid step _DS), reusing what is there."""
         if self._grid and self._grid["s"][0] <= s_min:
             return
-        n = int(math.ceil((self._sR - s_min) / _DS))
-        s = np.linspace(self._sR - n * _DS, self._sR, n + 1)
+        s = _grid_points(s_min, self._sR, self.horizon is not None)
         if self._grid:
             old = self._grid["s"]
             new = s[s < old[0] - _DS / 2]
@@ -388,7 +427,7 @@ def _check_omegas(omega):
     return np.atleast_1d(arr)
 
 
-def effective_potential(model, *, k_perp=0):
+def effective_potential(model, *, k_perp=0, far=None):
     """The normal form of the model's long-wavelength equation as a numeric potential.
 
     Parameters
@@ -397,6 +436,9 @@ def effective_potential(model, *, k_perp=0):
         A model whose profile joins the horizon to a uniform exterior region.
     k_perp : float, keyword-only
         Transverse wavenumber (see :func:`contourkit.symbolic.effective.effective_form`).
+    far : float, keyword-only
+        Position of the far end; default: where the profile is uniform to 1e-16
+        (relative), the far end of the direct solver's window.
 
     Returns
     -------
@@ -417,7 +459,10 @@ def effective_potential(model, *, k_perp=0):
         raise InputError("k_perp must be a number for the numeric potential; use "
                          "contourkit.symbolic.effective.effective_form(model, k_perp=Symbol) for a symbolic one")
     form = effective_form(model, k_perp=k_perp)
-    far = default_window(model)[1]
+    if far is None:
+        far = float(model.horizon) + uniform_length(model, "exterior")
+    elif isinstance(far, bool) or not isinstance(far, (int, float)) or not math.isfinite(far):
+        raise InputError(f"far must be a finite number beyond the horizon, got {far!r}")
     return EffectivePotential(form, far=far, kappa=model.kappa, name=model.name)
 
 

@@ -303,13 +303,13 @@ class HorizonModel:
         """One row per frequency; see :func:`contourkit.scattering.spectra.spectrum`."""
         return extensions.call("spectrum", self, omegas, **kw)
 
-    def effective_potential(self, *, k_perp=0):
+    def effective_potential(self, *, k_perp=0, far=None):
         """Normal form psi'' + (omega^2 - V) psi = 0 of the long-wavelength equation, with numbers.
 
         See :func:`contourkit.greybody.modelpotential.effective_potential` (the sympy
         derivation is :func:`contourkit.symbolic.effective.effective_form`).
         """
-        return extensions.call("effective_potential", self, k_perp=k_perp)
+        return extensions.call("effective_potential", self, k_perp=k_perp, far=far)
 
     def __repr__(self):
         return f"HorizonModel({self.name or 'unnamed'}, horizon={self.horizon}, kappa={self.kappa})"
