@@ -77,7 +77,8 @@ class EffectiveForm:
         A closed form of x*(x) when sympy finds one (rational dx*/dx), else None
         (the greybody layer integrates dx*/dx by quadrature).
     rescaling : sympy expression
-        ``f = discriminant^(1/4)``; ``chi = psi / f``.
+        ``f = discriminant^(1/4)`` (the impedance of the equation is ``f^2``);
+        ``chi = psi / f``.
     potential : sympy expression
         V(x) in the normal form ``psi_** + (omega^2 - V) psi = 0``.
     horizon : float or None
@@ -305,8 +306,9 @@ def normal_form(A, beta, C, a, x, *, k_perp=0, horizon=None, probe=0, dropped=()
     Cs, As, as_ = sign * C, sign * A, sign * a
     Ws = sign * W
     Sp = sp.simplify(beta / (2 * C))
-    xs1 = sp.simplify(sp.sqrt(disc) / Cs)
-    f = disc ** sp.Rational(1, 4)
+    root = _positive_root(disc, x, probe)
+    xs1 = sp.simplify(root / Cs)
+    f = sp.sqrt(root)
     # f_** / f with d/dx* = (1/xs1) d/dx
     fd = sp.diff(f, x) / xs1
     fdd = sp.diff(fd, x) / xs1
@@ -314,6 +316,20 @@ def normal_form(A, beta, C, a, x, *, k_perp=0, horizon=None, probe=0, dropped=()
     return EffectiveForm(x=x, omega=OMEGA, k_perp=kp, A=As, beta=sign * beta, C=Cs, a=as_, discriminant=disc,
                          phase_derivative=Sp, tortoise_derivative=xs1, tortoise=_closed_integral(xs1, x),
                          rescaling=f, potential=V, horizon=horizon, sign=sign, dropped=list(dropped))
+
+
+def _positive_root(disc, x, probe):
+    """sqrt(disc) as a plain expression (sqrt(c^2) -> c), positive at the probe point.
+
+    disc > 0 on the domain, so a continuous root keeps its sign there; the
+    denested root is checked against sqrt(disc) at the probe and flipped if negative.
+    """
+    r = sp.powdenest(sp.sqrt(sp.factor(disc)), force=True)
+    val = complex(sp.N(r.subs(x, probe)))
+    ref = complex(sp.N(sp.sqrt(disc.subs(x, probe))))
+    if abs(abs(val) - abs(ref)) > 1e-12 * abs(ref) or abs(val.imag) > 1e-12 * abs(ref):
+        return sp.sqrt(disc)
+    return r if val.real > 0 else -r
 
 
 def _exterior_probe(model):

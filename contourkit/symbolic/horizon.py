@@ -311,5 +311,13 @@ class HorizonModel:
         """
         return extensions.call("effective_potential", self, k_perp=k_perp, far=far)
 
+    def greybody(self, omega, **kw):
+        """Greybody factor, reflection and far-region occupation; see :func:`contourkit.greybody.farfield.greybody`."""
+        return extensions.call("greybody", self, omega, **kw)
+
+    def far_spectrum(self, omegas, **kw):
+        """Near-horizon rows with greybody and occupation_far; see :func:`contourkit.greybody.farfield.far_spectrum`."""
+        return extensions.call("far_spectrum", self, omegas, **kw)
+
     def __repr__(self):
         return f"HorizonModel({self.name or 'unnamed'}, horizon={self.horizon}, kappa={self.kappa})"
