@@ -147,6 +147,20 @@ class EffectiveForm:
         return res.coeff(P0), res.coeff(P1)
 
 
+def _tidy(expr):
+    """A rational normal form in the expression's generators (tanh(x/L), sqrt(...)): cheap, exact.
+
+    sympy's simplify() can take minutes on the derivatives of profiles; cancel() puts the
+    expression over a common denominator in its generators and cancels common factors,
+    which is enough for every identity the derivation needs (V = 0 for constant c included).
+    """
+    expr = sp.sympify(expr)
+    try:
+        return sp.cancel(sp.together(expr))
+    except (sp.PolynomialError, NotImplementedError):  # pragma: no cover - defensive
+        return expr
+
+
 def _coefficient(expr, power):
     return sp.expand(expr).coeff(OMEGA, power) if power else sp.expand(expr).subs(OMEGA, 0)
 
@@ -166,19 +180,19 @@ def long_wavelength(model):
             raise ModelError(f"the symmetric coefficient {what} is not a polynomial in omega; "
                              f"multiply the dispersion relation by its denominator first")
     bad = []
-    if sp.simplify(_coefficient(g0, 1)) != 0:
+    if _tidy(_coefficient(g0, 1)) != 0:
         bad.append("a term linear in omega without d/dx (in g_0)")
-    if sp.simplify(_coefficient(g1, 0)) != 0:
+    if _tidy(_coefficient(g1, 0)) != 0:
         bad.append("a first derivative without omega (in g_1)")
     if bad:
         raise ModelError("the model's long-wavelength limit is not a wave equation: it has "
                          + " and ".join(bad) + "; effective_potential needs a dispersion relation whose "
                          "terms of degree one in (omega, k) vanish")
-    A = sp.simplify(_coefficient(g0, 2))
-    a = sp.simplify(_coefficient(g0, 0))
-    b = sp.simplify(_coefficient(g1, 1))
-    C = sp.simplify(_coefficient(g2, 0))
-    beta = sp.simplify(I * b)                         # g_1 = omega b = -i omega beta
+    A = _tidy(_coefficient(g0, 2))
+    a = _tidy(_coefficient(g0, 0))
+    b = _tidy(_coefficient(g1, 1))
+    C = _tidy(_coefficient(g2, 0))
+    beta = _tidy(I * b)                         # g_1 = omega b = -i omega beta
     if A == 0 or C == 0:
         raise ModelError("the model's long-wavelength limit has no omega^2 term or no k^2 term "
                          f"(A = {A}, C = {C}); it has no normal form psi'' + (omega^2 - V) psi = 0")
@@ -197,7 +211,7 @@ def long_wavelength(model):
 
 def _closed_integral(expr, x):
     """sympy's antiderivative when expr is a rational function of x (else None: quadrature)."""
-    expr = sp.simplify(expr)
+    expr = _tidy(expr)
     if not expr.is_rational_function(x):
         return None
     try:
@@ -290,9 +304,9 @@ def normal_form(A, beta, C, a, x, *, k_perp=0, horizon=None, probe=0, dropped=()
     """
     A, beta, C, a = (sp.sympify(v) for v in (A, beta, C, a))
     kp = k_perp
-    disc = sp.simplify(beta ** 2 / 4 + A * C)
-    a = sp.simplify(a - kp ** 2 * disc / A) if kp != 0 else a
-    W = sp.simplify(disc / C)
+    disc = _tidy(beta ** 2 / 4 + A * C)
+    a = _tidy(a - kp ** 2 * disc / A) if kp != 0 else a
+    W = _tidy(disc / C)
     Wp = complex(sp.N(W.subs(x, probe)))
     if abs(Wp.imag) > 1e-12 * abs(Wp) or Wp.real == 0:
         raise ModelError(f"the omega^2 coefficient of the phase-transformed equation, {W}, is not real and "
@@ -305,14 +319,14 @@ def normal_form(A, beta, C, a, x, *, k_perp=0, horizon=None, probe=0, dropped=()
                          f"there, and no real tortoise coordinate exists")
     Cs, As, as_ = sign * C, sign * A, sign * a
     Ws = sign * W
-    Sp = sp.simplify(beta / (2 * C))
+    Sp = _tidy(beta / (2 * C))
     root = _positive_root(disc, x, probe)
-    xs1 = sp.simplify(root / Cs)
+    xs1 = _tidy(root / Cs)
     f = sp.sqrt(root)
     # f_** / f with d/dx* = (1/xs1) d/dx
     fd = sp.diff(f, x) / xs1
     fdd = sp.diff(fd, x) / xs1
-    V = sp.simplify(fdd / f - as_ / Ws)
+    V = _tidy(fdd / f - as_ / Ws)
     return EffectiveForm(x=x, omega=OMEGA, k_perp=kp, A=As, beta=sign * beta, C=Cs, a=as_, discriminant=disc,
                          phase_derivative=Sp, tortoise_derivative=xs1, tortoise=_closed_integral(xs1, x),
                          rescaling=f, potential=V, horizon=horizon, sign=sign, dropped=list(dropped))
