@@ -46,6 +46,7 @@ from scipy.interpolate import CubicSpline
 
 from ..errors import AccuracyWarning, InputError, ModelError
 from ..profiles.planewaves import uniform_length
+from ..symbolic import extensions
 from ..symbolic.effective import effective_form, normal_form
 
 __all__ = ["EffectivePotential", "ModelTransmission", "effective_potential", "coefficient_potential"]
@@ -391,11 +392,13 @@ class EffectivePotential:
                                  error=pick(err), dps=_DPS, success=bool(success.all()) if scalar else success,
                                  message=msg)
 
-    def plot(self, ax=None, **kwargs):
-        """V against x*; see :func:`contourkit.plotting.greybody_figure`."""
-        import importlib
-        plotting = importlib.import_module("contourkit.plotting")
-        return plotting.potential_figure(self, ax=ax, **kwargs)
+    def plot(self, *, ax=None, **kwargs):
+        """V against x*: (Figure, Axes); see :func:`contourkit.plotting.potential_figure`.
+
+        The plotting layer provides it through :mod:`contourkit.symbolic.extensions`
+        (loaded on first use).
+        """
+        return extensions.call("potential_figure", self, ax=ax, **kwargs)
 
     def __repr__(self):
         where = (f"horizon x={self.horizon:.6g} (x* = -inf)" if self.horizon is not None

@@ -13,13 +13,19 @@ journal style (:data:`JOURNAL_RC`: 3.4 in wide, 8 pt text) through
   labelled roots at one frequency; for a ModeEquation the curve
   ``sigma0(k) + x sigma1(k) = 0`` in the (k, x) plane;
 * :func:`spectrum`: ``|beta|^2`` against the thermal curve and
-  ``T_eff/T_H``, contour and direct results side by side.
+  ``T_eff/T_H``, contour and direct results side by side;
+* :func:`greybody_figure`: the effective potential V(x*) and the greybody
+  factor Gamma(omega); :func:`potential_figure`: V(x*) alone (``pot.plot()``).
 """
+from ..symbolic import extensions as _extensions
 from ._dispersion import dispersion
+from ._greybody import greybody_figure, potential_figure
 from ._landscape import auto_window, landscape
 from ._spectrum import spectrum
 from ._style import (COLUMN_WIDTH, JOURNAL_RC, MARKERS, NORM_LINESTYLE, PALETTE, journal_style, save,
                      style_rc)
 
-__all__ = ["landscape", "dispersion", "spectrum", "save", "journal_style", "style_rc", "auto_window",
+_extensions.provide("potential_figure", potential_figure)
+
+__all__ = ["landscape", "dispersion", "spectrum", "greybody_figure", "potential_figure", "save", "journal_style", "style_rc", "auto_window",
            "JOURNAL_RC", "PALETTE", "MARKERS", "NORM_LINESTYLE", "COLUMN_WIDTH"]

@@ -94,7 +94,8 @@ def spectrum(spec_or_rows, *, direct=None, ax=None, xaxis="omega/T_H", style="jo
     Returns
     -------
     (Figure, (Axes, Axes))
-        Gids: ``"thermal"`` (the Planck curve), ``"hawking-value"``,
+        Gids: ``"thermal"`` (the Planck curve), ``"hawking-value"``, ``"occupation-far"``
+        (rows of ``model.far_spectrum`` with an ``occupation_far`` column),
         ``"occupation-contour"``, ``"occupation-direct"``,
         ``"temperature-contour"``, ``"temperature-direct"``.
 
@@ -146,6 +147,16 @@ def spectrum(spec_or_rows, *, direct=None, ax=None, xaxis="omega/T_H", style="jo
         else:
             fig = top.get_figure()
         _draw(top, bottom, series, xaxis, float(ths[0]))
+        if "occupation_far" in rows[0]:
+            # far-region rows (model.far_spectrum): Gamma/(exp(omega/T_eff) - 1) beside |beta|^2
+            wf = np.array([_num(r["omega"]) for r in rows], dtype=float)
+            nf = np.array([_num(r["occupation_far"]) or np.nan for r in rows], dtype=float)
+            xf = wf / np.array([_num(r["hawking_temperature"]) for r in rows], dtype=float) \
+                if xaxis == "omega/T_H" else wf
+            o = np.argsort(xf)
+            top.plot(xf[o], nf[o], color=PALETTE["direct"], marker="^", ms=3.5, lw=0.9, ls=(0, (1, 1)),
+                     gid="occupation-far", label=r"far region $\Gamma/(e^{\omega/T_\mathrm{eff}} - 1)$")
+            top.legend(loc="upper right", frameon=False)
     return fig, (top, bottom)
 
 
