@@ -18,6 +18,7 @@ examples:
   contourkit spectrum MODEL.toml --omega-min 0.004 --omega-max 0.06 --points 12 --out spectrum.csv
   contourkit figures MODEL.toml --omega 0.02 --x -20 20 --out-dir figures
   contourkit check --example quartic_superluminal --omega 0.01 0.03
+  contourkit greybody MODEL.toml --omega-min 0.004 --omega-max 0.05 --points 8 --k-perp 0.01 --out far.csv
 Run 'contourkit COMMAND --help' for the options of each command.
 """
 
@@ -96,7 +97,7 @@ def _parallel_options(p):
 
 
 def build_parser():
-    """The parser with its four commands: derive, spectrum, figures, check.
+    """The parser with its commands: derive, spectrum, figures, check, greybody.
 
     Returns
     -------
@@ -155,4 +156,15 @@ def build_parser():
     p.add_argument("--omega", type=positive_float, nargs="+", required=True, metavar="W",
                    help="frequencies to compare")
     p.add_argument("--out", metavar="FILE.csv", help="also write the comparison table as CSV")
+
+    p = sub.add_parser("greybody", parents=[common], help="greybody factor and far-region occupation, to CSV",
+                       description="The effective potential of the model's long-wavelength equation, its "
+                                   "transmission Gamma(omega) and the far-region occupation "
+                                   "Gamma/(exp(omega/T_eff) - 1) beside the near-horizon figures, one row per "
+                                   "frequency.  The model needs a uniform exterior region (e.g. a tanh profile).")
+    _range_options(p, points=12)
+    p.add_argument("--k-perp", type=finite_float, default=0.0, metavar="Q",
+                   help="transverse wavenumber added to the effective potential (default 0)")
+    p.add_argument("--out", metavar="FILE.csv", help="write the table as CSV")
+    p.add_argument("--quiet", action="store_true", help="do not print the table")
     return top
