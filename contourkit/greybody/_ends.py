@@ -90,21 +90,22 @@ class AsymptoticEnd:
         Dy = self.D_func(y)
         return (u, Dy * self.side * uY), rel, ok
 
-    def start_point(self, k, tol, direction=1.0):
-        """A point y = y_base + t * side * direction beyond which the data are exact to tol.
+    def start_point(self, k, tol, direction=1.0, base=None):
+        """A point y = base + t * side * direction beyond which the data are exact to tol.
 
-        ``direction`` (complex, |direction| = 1, Re > 0) rotates the path for
-        complex frequencies.
+        ``direction`` (complex, |direction| = 1) rotates the path for complex
+        frequencies; ``base`` defaults to the outer edge of the potential's core.
         """
         e = self.side * complex(direction)
+        y_base = self.y_base if base is None else base
         ak = abs(k)
         t = max(self.scale, 1e-300)
         if not self.fast or self.power_law:
             t = max(t, 20.0 / max(ak, 1e-300) if self.power_law else t)
             for _ in range(60):
-                y = self.y_base + t * e
+                y = y_base + t * e
                 _, rel, ok = self.state(k, y, tol=tol, with_phase=False)
-                if ok and self._tail_ok(k, y, tol, e):
+                if ok and self._tail_ok(k, y, tol, e, None, y_base):
                     return y
                 t *= 2.0
             raise AccuracyError("no start point found where the asymptotic series of the "
@@ -112,8 +113,8 @@ class AsymptoticEnd:
                                 "omega may be too small for this tail, or the tail is not a power series.")
         prev = None
         for _ in range(200):
-            y = self.y_base + t * e
-            if self._tail_ok(k, y, tol, e, prev):
+            y = y_base + t * e
+            if self._tail_ok(k, y, tol, e, prev, y_base):
                 return y
             prev = (t, self.U_abs(y))
             t *= 1.5
@@ -121,7 +122,7 @@ class AsymptoticEnd:
                             f"{'right' if self.side > 0 else 'left'} end to start the integration; "
                             "give a potential with a rational (power-law) or exponentially small tail.")
 
-    def _tail_ok(self, k, y, tol, e, prev=None):
+    def _tail_ok(self, k, y, tol, e, prev=None, y_base=None):
         if not self.fast:
             return True
         a = self.U_abs(y)
@@ -133,7 +134,7 @@ class AsymptoticEnd:
         # decay length from the previous sample (Born estimate of the neglected tail)
         ell = self.scale
         if prev is not None and prev[1] > a > 0:
-            t = abs(complex(y) - self.y_base)
+            t = abs(complex(y) - (self.y_base if y_base is None else y_base))
             ell = max(min((t - prev[0]) / math.log(prev[1] / a), 10 * t), 1e-300)
         eps = a * ell * (1.0 / ak + ell)
         return eps < 1e-3 * tol
@@ -172,21 +173,22 @@ class HorizonEnd:
         """(psi, dpsi/dx*) of the ingoing (out) or outgoing (in) horizon solution at y."""
         kk = k if which == "out" else -k
         x = (mpmath.mpc(y) if mp else complex(y)) - self.y_h
-        n = nmax or 60
         Dt = self.Dt_mp if mp else self.Dt
         Vt = self.Vt_mp if mp else self.Vt
+        cap = len(Dt) - 3
+        n = min(nmax or 60, cap)
         while True:
             r, a = frobenius_series(mpmath.mpc(kk) if mp else complex(kk), Dt, Vt, n)
             u, ux, rel, ok = eval_frobenius(r, a, x, tol)
-            if ok or n >= 640 or len(Dt) < n:
+            if ok or n >= cap:
                 break
-            n *= 2
+            n = min(2 * n, cap)
         if with_phase:
             ph = mpmath.exp(r * mpmath.log(x)) if mp else cmath.exp(r * cmath.log(x))
             u, ux = u * ph, ux * ph
         return (u, self.D_func(y) * ux), rel, ok
 
-    def start_point(self, k, tol, direction=1.0):
+    def start_point(self, k, tol, direction=1.0, base=None):
         """y_h + delta, inside the disc of convergence of the horizon series."""
         delta = 0.5 * self.R_conv
         for _ in range(30):

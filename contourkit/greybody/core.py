@@ -234,6 +234,14 @@ class TortoisePotential:
 
         self._coef, self._coef_mp = coef, coef_mp
 
+        def coef_vec(yv):
+            yv = np.asarray(yv, dtype=complex)
+            with np.errstate(all="ignore"):
+                a, b = f_np(yv)
+            return (np.broadcast_to(np.asarray(a, dtype=complex), yv.shape),
+                    np.broadcast_to(np.asarray(b, dtype=complex), yv.shape))
+        self._coef_vec = coef_vec
+
         def Dfun(yv):
             if isinstance(yv, (mpmath.mpc, mpmath.mpf)):
                 return mpmath.mpc(D_mp(yv))
