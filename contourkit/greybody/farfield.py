@@ -30,7 +30,7 @@ import numpy as np
 
 from ..errors import ContourkitError, InputError
 from ..scattering.results import RowTable
-from .modelpotential import _check_omegas, effective_potential
+from .modelpotential import _check_omegas, effective_potential, short
 
 __all__ = ["GreybodyResult", "FarSpectrum", "greybody", "far_spectrum"]
 
@@ -79,9 +79,7 @@ class GreybodyResult:
     message: str
 
     def __repr__(self):
-        def f(v):
-            v = np.asarray(v, dtype=float)
-            return f"{float(v):.8g}" if v.ndim == 0 else f"array(n={v.size})"
+        f = short
         return (f"GreybodyResult(omega={f(self.omega)}, transmission={f(self.transmission)}, "
                 f"occupation_far={f(self.occupation_far)},\n  T_eff={f(self.effective_temperature)}, "
                 f"residual={float(np.max(self.residual)):.1e}, success={self.success})")

@@ -68,6 +68,12 @@ def _grid_points(s_min, s_max, horizon):
     return np.concatenate([lower, upper])
 
 
+def short(v):
+    """A number or an array, in a few characters (for the reprs of result objects)."""
+    v = np.asarray(v, dtype=float)
+    return f"{float(v):.8g}" if v.ndim == 0 else f"array(n={v.size})"
+
+
 @dataclass(repr=False)
 class ModelTransmission:
     """Transmission of the long-wavelength mode from the horizon to the far region.
@@ -102,9 +108,7 @@ class ModelTransmission:
     message: str
 
     def __repr__(self):
-        def f(v):
-            v = np.asarray(v, dtype=float)
-            return f"{float(v):.8g}" if v.ndim == 0 else f"array(n={v.size})"
+        f = short
         return (f"ModelTransmission(omega={f(self.omega)}, transmission={f(self.transmission)}, "
                 f"reflection={f(self.reflection)},\n  residual={float(np.max(self.residual)):.1e}, "
                 f"error={float(np.max(self.error)):.1e}, success={bool(np.all(self.success))})")

@@ -52,7 +52,7 @@ from ._sym import I, OMEGA, exact
 from ..errors import InputError, ModelError
 
 
-@dataclass
+@dataclass(repr=False)
 class EffectiveForm:
     """The exact normal form of a model's long-wavelength equation (sympy data).
 
@@ -106,6 +106,11 @@ class EffectiveForm:
     horizon: object
     sign: int = 1
     dropped: list = field(default_factory=list)
+
+    def __repr__(self):
+        where = "no horizon" if self.horizon is None else f"horizon x = {self.horizon:g} (x* = -inf)"
+        return (f"EffectiveForm(V = {sp.sstr(self.potential)[:70]},\n"
+                f"  dx*/dx = {sp.sstr(self.tortoise_derivative)[:60]}, k_perp = {self.k_perp}, {where})")
 
     def operator(self, phi):
         """The long-wavelength operator L0 (times ``sign``) applied to a sympy expression phi(x)."""
