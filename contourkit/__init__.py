@@ -28,7 +28,7 @@ from ._version import __version__  # noqa: E402
 # module lives in the profiles layer.
 sys.modules[__name__ + ".direct"] = direct
 
-__all__ = ["ModeEquation", "HorizonModel", "Contour", "load_model", "compare", "catalogue", "direct",
+__all__ = ["ModeEquation", "HorizonModel", "Contour", "load_model", "compare", "catalogue", "direct", "greybody",
            "plotting", "scattering", "fourier", "asymptotics", "modes",
            "ContourkitError", "InputError", "ModelError", "ModelFileError", "HorizonError", "ContourError",
            "AccuracyError", "ScatteringError", "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning"]
