@@ -13,7 +13,7 @@ x*.  Entry points:
 Methods and checks: docs/greybody.md.
 """
 from .core import TortoisePotential, potential
-from .radial import radial
+from .metric import radial
 from .results import (BoundState, BoundStateList, ModeList, Profile, QuasinormalMode,
                       TransmissionResult)
 

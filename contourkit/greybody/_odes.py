@@ -4,82 +4,32 @@ State (u, w) = (psi, dpsi/dx*) with ``u' = w / D`` and
 ``w' = -(omega^2 - V) u / D`` (prime: d/dy, y complex on a straight segment
 y(t) = y_a + t (y_b - y_a), t in [0, 1]).  Two engines:
 
-* double precision: scipy's DOP853 (order 8) with tight tolerances, the
-  segment split into pieces at whose ends the state is rescaled, so that
+* double precision: the 8-stage Gauss-Legendre collocation method (order 16)
+  on a mesh adapted to the local rate of the solution; all step propagators
+  are built in one batched linear solve and multiplied with rescaling, so
   exponentially large solutions never overflow (the scale is kept as a
   logarithm);
-* raised precision: an s-stage Gauss-Legendre collocation method (order 2s)
-  in mpmath on a mesh taken from a double-precision run.  For this linear
-  system the stage equations reduce to one s-by-s linear solve per step.
+* raised precision: the same method in mpmath on the same kind of mesh.  For
+  this linear system the stage equations reduce to one s-by-s linear solve
+  per step.
 
 References
 ----------
 .. [1] E. Hairer, S. P. Norsett, G. Wanner, Solving Ordinary Differential
-   Equations I, 2nd ed. (Springer, 1993), section II.5 (DOP853) and
-   section II.7 (Gauss-Legendre collocation methods).
+   Equations I, 2nd ed. (Springer, 1993), section II.7 (Gauss-Legendre
+   collocation methods).
 """
 import functools
 import math
 
 import mpmath
 import numpy as np
-from scipy.integrate import solve_ivp
 
 from ..errors import AccuracyError
 
-__all__ = ["integrate_double", "integrate_gl", "integrate_mp", "gauss_legendre_tableau", "path_mesh"]
+__all__ = ["integrate_gl", "integrate_mp", "gauss_legendre_tableau", "path_mesh"]
 
 _GL_STAGES = 8          # order 16 in double precision
-
-
-def integrate_double(coef, omega2, y_a, y_b, state, *, rtol=1e-12, pieces=8):
-    """Integrate the state from y_a to y_b in double precision.
-
-    Parameters
-    ----------
-    coef : callable
-        ``coef(y) -> (1/D(y), V(y)/D(y))`` for complex y.
-    omega2 : complex
-    y_a, y_b : complex
-    state : (complex, complex)
-        (u, w) at y_a.
-    rtol : float
-    pieces : int
-        Number of rescaling pieces.
-
-    Returns
-    -------
-    (u, w), log_scale, mesh
-        The state at y_b is ``exp(log_scale) * (u, w)``; mesh is the list of
-        accepted points (complex y) for the raised-precision engine.
-    """
-    delta = complex(y_b) - complex(y_a)
-    y_a = complex(y_a)
-
-    def rhs(t, s):
-        y = y_a + t * delta
-        inv_d, v_d = coef(y)
-        return np.array([delta * inv_d * s[1], -delta * (omega2 * inv_d - v_d) * s[0]])
-
-    s = np.array([complex(state[0]), complex(state[1])])
-    log_scale = 0.0
-    mesh = [y_a]
-    ts = np.linspace(0.0, 1.0, pieces + 1)
-    for t0, t1 in zip(ts[:-1], ts[1:]):
-        nrm = float(np.max(np.abs(s)))
-        if not np.isfinite(nrm) or nrm == 0.0:
-            raise AccuracyError("the solution became zero or non-finite during the integration; "
-                                "check that V is finite on the integration path.")
-        s = s / nrm
-        log_scale += math.log(nrm)
-        with np.errstate(all="ignore"):
-            sol = solve_ivp(rhs, (t0, t1), s, method="DOP853", rtol=rtol, atol=rtol * 1e-10)
-        if sol.status != 0 or not np.all(np.isfinite(sol.y[:, -1])):
-            raise AccuracyError(f"the ODE integration failed ({sol.message}); the potential may "
-                                "be singular on the path or too stiff for rtol; check V.")
-        s = sol.y[:, -1]
-        mesh.extend((y_a + t * delta) for t in sol.t[1:])
-    return (s[0], s[1]), log_scale, mesh
 
 
 @functools.lru_cache(maxsize=16)

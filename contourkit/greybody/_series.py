@@ -213,18 +213,20 @@ def eval_outgoing(k, sigma, c, D0, Y, tol):
     p = 1 + 0 * Yinv
     prev = None
     err = None
+    recent = []
     for n, cn in enumerate(c):
         term = cn * p
         a = abs(term)
-        if n > 2 and a > prev:          # the series starts to diverge: stop before this term
+        if n > 3 and a > max(recent) and a > 0:   # the series starts to diverge: stop before this term
             err = a
             break
         u += term
         up += -n * term * Yinv
-        prev = a
+        recent = (recent + [a])[-3:]
+        prev = max(recent)
         p = p * Yinv
-        if n > 2 and a <= tol * abs(u) * 1e-3:
-            err = a
+        if n > 3 and prev <= tol * abs(u) * 1e-3:
+            err = prev
             break
     if err is None:
         err = prev
@@ -273,15 +275,16 @@ def eval_frobenius(r, a, x, tol):
     u = 0
     up = 0
     p = 1 + 0 * x
-    last = None
+    recent = []
     for n, an in enumerate(a):
         term = an * p
         u += term
         if n >= 1:
             up += n * an * p / x
-        last = abs(term)
+        recent = (recent + [abs(term)])[-4:]
         p = p * x
-        if n > 4 and last <= tol * abs(u) * 1e-3:
+        if n > 4 and max(recent) <= tol * abs(u) * 1e-3:
             break
+    last = max(recent)
     rel = last / abs(u) if abs(u) > 0 else last
     return u, r * u / x + up, rel, rel <= tol

@@ -103,7 +103,7 @@ def _horizon_operator(pot):
     yc = sp.nsimplify(end.y_c)
     ell = sp.nsimplify(pot.horizon) - yc if float(pot.horizon).is_integer() else sp.Float(pot.horizon, 30) - yc
     D0 = sp.nsimplify(end.D0) if float(end.D0).is_integer() else sp.Float(end.D0, 30)
-    D1 = complex(end.Dc[1]).real
+    D1 = complex(end.Dc[1]).real if len(end.Dc) > 1 else 0.0
     sigma = -sp.Float(D1, 30) / D0 ** 2 if D1 != 0 else sp.Integer(0)
     D = pot._D.subs(y, yc + ell / z)
     V0 = pot.limits[1]
@@ -135,13 +135,17 @@ def _eval_coef(entry, pts):
         vals = np.asarray(f(pts.astype(complex)), dtype=complex) * np.ones(pts.shape)
     for i in np.nonzero(~np.isfinite(vals))[0]:
         p = pts[i]
-        try:
-            lim = complex(sp.N(sp.limit(e, z, sp.nsimplify(p), "+" if p == 0 else "-")))
-        except Exception:
-            lim = complex("nan")
-        if not np.isfinite(lim):
-            q = p + (1e-9 if p == 0 else -1e-9)
+        q = p + (1e-9 if p == 0 else -1e-9)
+        with np.errstate(all="ignore"):
             lim = complex(f(complex(q)))
+        if not np.isfinite(lim):
+            try:
+                lim = complex(sp.N(sp.limit(e, z, sp.nsimplify(p), "+" if p == 0 else "-")))
+            except Exception:   # no limit: the operator is singular there
+                lim = complex("nan")
+        if not np.isfinite(lim):
+            raise InputError("the compactified equation is singular at an end; the potential does "
+                             "not have the asymptotics the quasinormal-mode search needs.")
         vals[i] = lim
     return vals
 
@@ -267,7 +271,7 @@ def _config(pot, k, variant):
     """Freeze the path (angle, matching point, far points) for a polishing run."""
     tol = 1e-16
     ang = -cmath.phase(k) if k != 0 else 0.0
-    if pot.left.kind == "horizon":
+    if pot.left.kind == "horizon" and not pot.right.fast:
         theta = ang + (math.pi / 4 if variant == 0 else math.pi / 3)
         theta = min(theta, 0.9 * math.pi)
         y_m = pot.left.start_point(k, tol) if variant == 0 else \
@@ -280,6 +284,10 @@ def _config(pot, k, variant):
     frac = 0.5 if variant == 0 else 0.65
     theta = ang + frac * (math.pi / 2 - ang)
     e = cmath.exp(1j * theta)
+    if pot.left.kind == "horizon":      # horizon and an exponentially decaying far tail
+        y_m = pot.left.start_point(k, tol) if variant == 0 else pot.horizon + 0.35 * pot.left.R_conv
+        y_far = pot.right.start_point(k, tol, direction=e, base=y_m)
+        return {"y_m": y_m, "ends": [(pot.right, y_far)], "density": 2.0 if variant == 0 else 3.0}
     mid = 0.5 * (pot.core[0] + pot.core[1]) + (0.0 if variant == 0 else 0.1 * pot.scale)
     yR = pot.right.start_point(k, tol, direction=e, base=mid)
     yL = pot.left.start_point(k, tol, direction=e, base=mid)
@@ -300,10 +308,12 @@ def wronskian(pot, k, cfg, V0=0.0):
         (u, w), ls, _ = integrate_gl(pot._coef_vec, om2, y0, y_m, st, density=cfg["density"])
         sols.append(((u, w), ls))
     (a, la), (b, lb) = sols
+    if "ref" not in cfg:
+        cfg["ref"] = la + lb            # fixed reference scale: W stays continuous in k
     W = (a[0] * b[1] - a[1] * b[0])
     ak = max(abs(k), 1e-300)
     norm = math.hypot(abs(a[0]) * ak, abs(a[1])) * math.hypot(abs(b[0]) * ak, abs(b[1])) / ak
-    return W * cmath.exp(la + lb), abs(W) / norm if norm > 0 else math.inf
+    return W * cmath.exp(min(la + lb - cfg["ref"], 600.0)), abs(W) / norm if norm > 0 else math.inf
 
 
 def _polish(pot, k0, cfg, found, V0, tol=1e-13, maxit=24):
@@ -373,10 +383,16 @@ def quasinormal_modes(pot, *, n_max=2, region=None):
                  and box[2] - mi <= to_omega(c[0]).imag <= box[3] + mi]
     found, modes = [], []
     notes = set()
+    kap = pot.left.kappa if pot.left.kind == "horizon" else None
     for k, dspec, bwd in cands:
+        if kap is not None and abs(k.real) < 1e-6 * abs(k) and \
+                abs(k.imag / kap - round(k.imag / kap)) < 1e-5 and round(k.imag / kap) != 0:
+            notes.add("candidates at omega = -i m kappa (where the horizon series has a logarithm "
+                      "and the spectral method cannot decide) were skipped")
+            continue
         if box is None and len(modes) > n_max and abs(k.imag) > max(abs(m[0].imag) for m in modes[: n_max + 1]):
             break
-        if pot.left.kind == "asymptotic" and math.pi / 2 + cmath.phase(k) < 0.2:
+        if pot.right.fast and not pot.right.power_law and math.pi / 2 + cmath.phase(k) < 0.2:
             # Exponential tails and k near the negative imaginary axis: no ray with Re y -> inf
             # makes the outgoing wave subdominant; keep the spectral eigenvalue.
             if all(abs(k - q) > 1e-7 * abs(k) for q in found) and dspec < 1e-6 * abs(k):
@@ -393,7 +409,7 @@ def quasinormal_modes(pot, *, n_max=2, region=None):
                 continue
             cfgB = _config(pot, kA, 1)
             kB, okB = _polish(pot, kA, cfgB, found, V0)
-        except AccuracyError:
+        except (AccuracyError, OverflowError, ZeroDivisionError, FloatingPointError):
             continue
         if not okB or kB.imag >= 0 or kB.real < -1e-8 * abs(kB):
             continue

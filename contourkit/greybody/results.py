@@ -1,5 +1,5 @@
 """Result objects of the greybody layer (documented fields, short repr)."""
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any, Optional
 
 import numpy as np
@@ -92,7 +92,8 @@ class QuasinormalMode:
         polishings (different matching points, path angles and tolerances).
     residual : float
         Normalised Wronskian |W| / (|psi_1||psi_2'| + |psi_1'||psi_2|) of the
-        two boundary solutions at omega, computed on the second path.
+        two boundary solutions at omega (from the second polishing), computed
+        on the first path.
     spectral_estimate : complex
         The eigenvalue of the spectral discretisation the root was polished from.
     """

@@ -26,7 +26,7 @@ import numbers
 import mpmath
 import numpy as np
 
-from ..errors import AccuracyError, InputError
+from ..errors import InputError
 from ._odes import integrate_gl, integrate_mp, path_mesh
 from .results import TransmissionResult
 
@@ -202,7 +202,7 @@ def transmission_at(pot, omega, *, rtol=1e-10, dps=None):
                     T = mpmath.exp(-mpmath.log(A) - ls)
         res.append((g, refl, T, Rr, logg))
     (ga, rfa, _, _, _), (g, refl, T, Rr, logg) = res
-    err = abs(g - ga)
+    err = max(abs(g - ga), (2.2e-16 if dps is None else mpmath.mpf(10) ** (-dps)) * g)
     rel = float(err / g) if g > 0 else 0.0
     resid = abs(refl + g - 1)
     ok = rel <= rtol and float(resid) <= max(100 * rtol, 1e-12) and abs(refl - rfa) <= max(rtol, 1e-12)

@@ -18,7 +18,6 @@ References
 .. [2] E. Berti, V. Cardoso and A. O. Starinets, Class. Quantum Grav. 26
    (2009) 163001 (review of quasinormal modes; the potentials above).
 """
-import math
 import numbers
 
 import mpmath
