@@ -16,7 +16,7 @@ import sys
 from .errors import (AccuracyError, AccuracyWarning, CoalescenceWarning, ContourError,
                      ContourkitError, ContourkitWarning, HorizonError, InputError,
                      ModelError, ModelFileError, ScatteringError)
-from . import symbolic, geometry, evaluation, scattering, profiles, scans
+from . import symbolic, geometry, evaluation, scattering, profiles, greybody, scans
 from .symbolic import HorizonModel, ModeEquation, extensions, load_model
 from .geometry import Contour
 from .profiles import compare, direct
@@ -28,7 +28,7 @@ from ._version import __version__  # noqa: E402
 # module lives in the profiles layer.
 sys.modules[__name__ + ".direct"] = direct
 
-__all__ = ["ModeEquation", "HorizonModel", "Contour", "load_model", "compare", "catalogue", "direct",
+__all__ = ["ModeEquation", "HorizonModel", "Contour", "load_model", "compare", "catalogue", "direct", "greybody",
            "plotting", "scattering", "fourier", "asymptotics", "modes",
            "ContourkitError", "InputError", "ModelError", "ModelFileError", "HorizonError", "ContourError",
            "AccuracyError", "ScatteringError", "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning"]

@@ -19,6 +19,7 @@ examples:
   contourkit spectrum --example quartic_superluminal --points 100 --workers 2 --out s.csv --restart
   contourkit figures MODEL.toml --omega 0.02 --x -20 20 --out-dir figures
   contourkit check --example quartic_superluminal --omega 0.01 0.03
+  contourkit greybody MODEL.toml --omega-min 0.004 --omega-max 0.05 --points 8 --k-perp 0.01 --out far.csv
 Run 'contourkit COMMAND --help' for the options of each command.
 """
 

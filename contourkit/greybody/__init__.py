@@ -51,3 +51,14 @@ def transmission(V, x, omega, *, parameters=None, rtol=1e-10, dps=None):
     True
     """
     return potential(V, x, parameters=parameters).transmission(omega, rtol=rtol, dps=dps)
+
+# model potentials (the normal form of a HorizonModel's long-wavelength equation)
+from ..symbolic import extensions as _extensions  # noqa: E402
+from .modelpotential import EffectivePotential, ModelTransmission, effective_potential  # noqa: E402
+from .farfield import FarSpectrum, GreybodyResult, far_spectrum, greybody  # noqa: E402
+
+_extensions.provide("effective_potential", effective_potential)
+_extensions.provide("greybody", greybody)
+_extensions.provide("far_spectrum", far_spectrum)
+__all__ += ["EffectivePotential", "ModelTransmission", "effective_potential", "FarSpectrum", "GreybodyResult",
+            "far_spectrum", "greybody"]

@@ -17,14 +17,20 @@ journal style (:data:`JOURNAL_RC`: 3.4 in wide, 8 pt text) through
 * :func:`mode_plane`, :func:`mode_profile`, :func:`modes_figure`: complex
   frequencies found by a mode search (marker size by residual) and the
   profile of one mode.
+* :func:`greybody_figure`: the effective potential V(x*) and the greybody
+  factor Gamma(omega); :func:`potential_figure`: V(x*) alone (``pot.plot()``).
 """
+from ..symbolic import extensions as _extensions
 from ._dispersion import dispersion
+from ._greybody import greybody_figure, potential_figure
 from ._landscape import auto_window, landscape
 from ._modes import mode_plane, mode_profile, modes_figure
 from ._spectrum import spectrum
 from ._style import (COLUMN_WIDTH, JOURNAL_RC, MARKERS, NORM_LINESTYLE, PALETTE, journal_style, save,
                      style_rc)
 
-__all__ = ["landscape", "dispersion", "spectrum", "save", "journal_style", "style_rc", "auto_window",
-           "mode_plane", "mode_profile", "modes_figure",
+_extensions.provide("potential_figure", potential_figure)
+
+__all__ = ["landscape", "dispersion", "spectrum", "greybody_figure", "potential_figure", "save", "journal_style",
+           "style_rc", "auto_window", "mode_plane", "mode_profile", "modes_figure",
            "JOURNAL_RC", "PALETTE", "MARKERS", "NORM_LINESTYLE", "COLUMN_WIDTH"]

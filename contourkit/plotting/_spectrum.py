@@ -146,7 +146,8 @@ def spectrum(spec_or_rows, *, direct=None, ax=None, xaxis="omega/T_H", omega_max
     Returns
     -------
     (Figure, (Axes, Axes))
-        Gids: ``"thermal"`` (the Planck curve), ``"hawking-value"``,
+        Gids: ``"thermal"`` (the Planck curve), ``"hawking-value"``, ``"occupation-far"``
+        (rows of ``model.far_spectrum`` with an ``occupation_far`` column),
         ``"occupation-contour"``, ``"occupation-direct"``,
         ``"temperature-contour"``, ``"temperature-direct"``, ``"cutoff"``
         (the line in each panel, or the note), ``"cutoff-region"``.
@@ -209,6 +210,17 @@ def spectrum(spec_or_rows, *, direct=None, ax=None, xaxis="omega/T_H", omega_max
         else:
             fig = top.get_figure()
         _draw(top, bottom, series, xaxis, float(ths[0]), omega_max)
+        if "occupation_far" in rows[0]:
+            # far-region rows (model.far_spectrum): Gamma/(exp(omega/T_eff) - 1) beside |beta|^2;
+            # rows without a value are left out, never drawn as zero
+            wf = np.array([_num(r.get("omega")) for r in rows], dtype=float)
+            nf = np.array([_num(r.get("occupation_far")) for r in rows], dtype=float)
+            tf = np.array([_num(r.get("hawking_temperature")) for r in rows], dtype=float)
+            keep = np.isfinite(wf) & np.isfinite(nf) & np.isfinite(tf) & (nf > 0)
+            xf = XAXES[xaxis][1](wf[keep], tf[keep])
+            o = np.argsort(xf)
+            top.plot(xf[o], nf[keep][o], color=PALETTE["direct"], marker="^", ms=3.5, lw=0.9, ls=(0, (1, 1)),
+                     gid="occupation-far", label=r"far region $\Gamma/(e^{\omega/T_\mathrm{eff}} - 1)$")
         if legend:
             hs = [l for l in top.get_lines() + bottom.get_lines() + top.patches
                   if l.get_label() and not l.get_label().startswith("_")]

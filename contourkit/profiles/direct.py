@@ -94,11 +94,11 @@ def _check_omega(omega):
         if not (math.isfinite(w.real) and math.isfinite(w.imag)) or w.real <= 0:
             raise InputError(f"omega must be a positive real number, or complex with Re omega > 0, got {omega!r}; "
                              f"the in/out labels of a complex frequency are continued from real Re omega > 0 "
-                             f"(for modes with Re omega = 0 use contourkit.unstable.unstable_modes)")
+                             f"(for modes with Re omega = 0 use ck.direct.unstable_modes)")
         if abs(w.imag) > COMPLEX_LIMIT * w.real:
             raise InputError(f"|Im omega| = {abs(w.imag):g} is more than {COMPLEX_LIMIT:g} Re omega: scatter() "
                              f"continues the in/out labels from the real frequency Re omega only for small "
-                             f"|Im omega|; use contourkit.unstable.unstable_modes to find modes further from "
+                             f"|Im omega|; use ck.direct.unstable_modes to find modes further from "
                              f"the real axis")
         return w
     try:
@@ -137,7 +137,7 @@ def _continued_modes(model, w, x, side, *, steps=16):
         if h < 1.0 / 1024:
             raise InputError(f"the plane-wave roots at x = {x:g} come too close between Re omega and omega = {w:g} "
                              f"for the in/out labels to continue from the real axis; take a smaller |Im omega| "
-                             f"or use contourkit.unstable.unstable_modes")
+                             f"or use ck.direct.unstable_modes")
         dt_ = h / 2
     cD, _ = dispersion_callables(model)
     c = np.array([complex(f(w, x)) for f in cD])

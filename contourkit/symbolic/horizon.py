@@ -264,7 +264,9 @@ class HorizonModel:
                 f"(e.g. (omega - v k)^2 - c^2 k^2), or, for one stationary equation without a horizon, use "
                 f"ModeEquation.from_ode")
         poly = sp.Poly(self.dispersion, OMEGA, KS)
-        terms = [(m, c) for m, c in poly.terms() if sp.simplify(c) != 0]
+        # a mass-like term (no omega, no k: a transverse wavenumber) does not move the horizon,
+        # which is that of the massless part (the lowest degree >= 1)
+        terms = [(m, c) for m, c in poly.terms() if sum(m) > 0 and sp.simplify(c) != 0]
         if not terms:
             raise HorizonError("the dispersion function vanishes identically")
         d = min(sum(m) for m, _ in terms)
@@ -502,6 +504,22 @@ class HorizonModel:
     def spectrum(self, omegas, **kw):
         """One row per frequency; see :func:`contourkit.scans.engine.spectrum`."""
         return extensions.call("spectrum", self, omegas, **kw)
+
+    def effective_potential(self, *, k_perp=0, far=None):
+        """Normal form psi'' + (omega^2 - V) psi = 0 of the long-wavelength equation, with numbers.
+
+        See :func:`contourkit.greybody.modelpotential.effective_potential` (the sympy
+        derivation is :func:`contourkit.symbolic.effective.effective_form`).
+        """
+        return extensions.call("effective_potential", self, k_perp=k_perp, far=far)
+
+    def greybody(self, omega, **kw):
+        """Greybody factor, reflection and far-region occupation; see :func:`contourkit.greybody.farfield.greybody`."""
+        return extensions.call("greybody", self, omega, **kw)
+
+    def far_spectrum(self, omegas, **kw):
+        """Near-horizon rows with greybody and occupation_far; see :func:`contourkit.greybody.farfield.far_spectrum`."""
+        return extensions.call("far_spectrum", self, omegas, **kw)
 
     def __repr__(self):
         if self.horizon is None:

@@ -46,7 +46,9 @@ def _base(name):
     return {"derive": ["derive", "--example", TANH],
             "spectrum": ["spectrum", SUPER, "--points", "2", "--workers", "1", "--quiet"],
             "figures": ["figures", SUPER, "--points", "2", "--workers", "1"],
-            "check": ["check", "--example", TANH, "--omega", "0.02"]}.get(name, [name, SUPER])
+            "check": ["check", "--example", TANH, "--omega", "0.02"],
+            "greybody": ["greybody", "--example", TANH, "--omega-min", "0.01", "--omega-max", "0.02",
+                         "--points", "2", "--quiet"]}.get(name, [name, SUPER])
 
 
 def _subparsers():
