@@ -271,18 +271,19 @@ class HorizonModel:
             raise HorizonError("the dispersion function vanishes identically")
         d = min(sum(m) for m, _ in terms)
         part = {m: c for m, c in terms if sum(m) == d}
-        if d == 0:
-            raise HorizonError(
-                f"the lowest-order part of the dispersion function in (omega, k) is {_short(part[(0, 0)])}, a "
-                f"term with neither omega nor k (a gap or potential term): the long-wavelength branch is not a "
-                f"sound wave omega = lambda(x) k, so contourkit's sonic horizon is not defined; such a point is a "
-                f"turning point of the equation (Airy- or Budden-type), not a horizon: use the equation as "
-                f"given with ModeEquation.from_ode(...) and its contours, or add the sound branch to D")
         return (d, part.get((0, d), sp.Integer(0)), part.get((1, d - 1), sp.Integer(0)),
                 part.get((2, d - 2), sp.Integer(0)) if d >= 2 else sp.Integer(0))
 
     def _find_horizon(self):
         d, c0, c1, _ = self._low_frequency_part()
+        gap = sp.Poly(self.dispersion, OMEGA, KS).coeff_monomial(1)
+        if c1 == 0 and gap.has(self.x):
+            raise HorizonError(
+                f"the only x-dependent low-order term of the dispersion function is {_short(gap)}, a term with "
+                f"neither omega nor k (a gap or potential term), and D has no omega*k term: the long-wavelength "
+                f"branch is not a sound wave omega = lambda(x) k, so contourkit's sonic horizon is not defined; "
+                f"such a point is a turning point of the equation (Airy- or Budden-type), not a horizon: use the "
+                f"equation as given with ModeEquation.from_ode(...) and its contours, or add the sound branch to D")
         if c1 == 0:
             raise HorizonError(
                 f"the lowest-order part of the dispersion function has no omega*k term (it is "
