@@ -358,3 +358,84 @@ def run_greybody(args):
 
 
 __all__ = ["COMMANDS", "CommandFailed", "omega_range"]
+
+
+def _modes_options(p):
+    p.add_argument("--kind", choices=("unstable", "quasinormal"), default="unstable",
+                   help="unstable: complex omega with Im omega > 0 of the full dispersive equation with no "
+                        "incoming wave (a horizon pair: the black-hole laser; default); quasinormal: the "
+                        "ringing frequencies of the model's long-wavelength effective potential")
+    p.add_argument("--omega-max", type=positive_float, metavar="W",
+                   help="unstable: right edge Re omega < W of the search box (default: the cavity cut-off)")
+    p.add_argument("--im-max", type=positive_float, metavar="G",
+                   help="unstable: top Im omega < G of the search box (default from the cavity cut-off)")
+    p.add_argument("--n-max", type=positive_int, default=2, metavar="N",
+                   help="quasinormal: overtones n = 0..N (default 2)")
+    p.add_argument("--k-perp", type=finite_float, default=0.0, metavar="Q",
+                   help="quasinormal: transverse wavenumber of the effective potential (default 0)")
+    p.add_argument("--out", metavar="FILE.csv", help="write the modes as CSV")
+    p.add_argument("--figure", metavar="FILE", help="draw the complex-omega plane (and the dominant unstable "
+                                                   "mode's profile) into FILE (.png, .pdf or .svg)")
+    p.add_argument("--quiet", action="store_true", help="do not print the table")
+
+
+def _mode_rows(modes, kind):
+    rows = []
+    for i, md in enumerate(modes):
+        w = complex(md.omega)
+        err = getattr(md, "error_estimate", getattr(md, "error", None))
+        rows.append({"index": i if kind == "unstable" else getattr(md, "overtone", i),
+                     "omega_real": w.real, "omega_imag": w.imag,
+                     "residual": float(md.residual), "error": None if err is None else float(err)})
+    return rows
+
+
+@command("modes", help="complex frequencies: unstable modes or quasinormal modes, to CSV", options=_modes_options,
+         description="Search the complex frequency plane of a model: the unstable modes of the full dispersive "
+                     "equation (Im omega > 0, no incoming wave on either side; found by the argument principle "
+                     "on the direct solver's system, with deflation) or the quasinormal modes of the "
+                     "long-wavelength effective potential (outgoing at both ends).")
+def run_modes(args):
+    """``contourkit modes``: a table (and a figure) of the complex frequencies of a model."""
+    model, label = load(args)
+    require_horizon(model, label, "modes")
+    for path, what in ((args.out, "the table"), (args.figure, "the figure")):
+        if path is not None:
+            _writable(path, what)
+    if args.figure is not None and pathlib.Path(args.figure).suffix.lower() not in (".png", ".pdf", ".svg"):
+        raise UsageError(f"--figure {args.figure!r}: give a file name ending in .png, .pdf or .svg")
+    if args.kind == "unstable":
+        from ..profiles.unstable import unstable_modes
+        modes = unstable_modes(model, omega_max=args.omega_max, im_max=args.im_max)
+    else:
+        pot = model.effective_potential(k_perp=args.k_perp)
+        if not hasattr(pot, "quasinormal_modes"):
+            raise InputError(f"the effective potential of {label} offers no quasinormal-mode search in this "
+                             f"version; use ck.greybody.potential(V, x) with its V(x*)")
+        modes = pot.quasinormal_modes(n_max=args.n_max)
+    rows = _mode_rows(modes, args.kind)
+    message = getattr(modes, "message", "")
+    if not args.quiet:
+        print(f"# {model.name or label}: {args.kind} modes; {message}")
+        print(f"{'n':>3} {'Re omega':>14} {'Im omega':>14} {'residual':>9} {'error':>9}")
+        for r in rows:
+            print(f"{r['index']:3d} {r['omega_real']:14.8g} {r['omega_imag']:14.8g} {r['residual']:9.1e} "
+                  f"{_fmt(r['error'], '9.1e')}")
+    if args.out is not None:
+        from ..scattering.results import RowTable
+        RowTable(rows).to_csv(args.out)
+        print(f"# table written to {args.out}")
+    if args.figure is not None:
+        from .. import plotting
+        if args.kind == "unstable" and len(modes):
+            fig, _ = plotting.modes_figure(modes, horizons=_horizon_pair_positions(model))
+        else:
+            fig, _ = plotting.mode_plane(modes)
+        fig.savefig(args.figure, dpi=300)
+        print(f"# figure written to {args.figure}")
+    return 0
+
+
+def _horizon_pair_positions(model):
+    white = getattr(model, "white_horizon", None)
+    return None if white is None else (float(white), float(model.horizon))

@@ -48,7 +48,8 @@ def _base(name):
             "figures": ["figures", SUPER, "--points", "2", "--workers", "1"],
             "check": ["check", "--example", TANH, "--omega", "0.02"],
             "greybody": ["greybody", "--example", TANH, "--omega-min", "0.01", "--omega-max", "0.02",
-                         "--points", "2", "--quiet"]}.get(name, [name, SUPER])
+                         "--points", "2", "--quiet"],
+            "modes": ["modes", "--catalogue", "horizon_pair", "--param", "L=1.0", "--quiet"]}.get(name, [name, SUPER])
 
 
 def _subparsers():
