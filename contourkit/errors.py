@@ -50,8 +50,16 @@ class CoalescenceWarning(ContourkitWarning):
     """Two saddles, or a saddle and a singular point, nearly coincide."""
 
 
+class ValidityWarning(ContourkitWarning):
+    """A near-horizon result is exact for the linearised model but not a reliable value for the full profile.
+
+    Issued whenever ``result.validity.reliable`` is False (see
+    :mod:`contourkit.profiles.validity`).
+    """
+
+
 __all__ = [
     "ContourkitError", "InputError", "ModelError", "ModelFileError",
     "HorizonError", "ContourError", "AccuracyError", "ScatteringError",
-    "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning",
+    "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning", "ValidityWarning",
 ]

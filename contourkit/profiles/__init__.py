@@ -5,9 +5,10 @@ Entry points: :func:`.direct.scatter`, :func:`.cutoff.omega_max`,
 :func:`.comparison.compare`.
 """
 from ..symbolic import extensions
-from . import cutoff, direct
+from . import cutoff, direct, validity
 from .comparison import compare
 
 extensions.provide("omega_max", cutoff.omega_max)
+extensions.provide("full_profile", validity.attach)
 
-__all__ = ["compare", "cutoff", "direct"]
+__all__ = ["compare", "cutoff", "direct", "validity"]

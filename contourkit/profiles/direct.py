@@ -303,6 +303,11 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     >>> [md.name for md in r.in_modes]
     ['ext-in-', 'ext-in+', 'ext-in+']
     """
+    from ..symbolic.horizon import HorizonModel
+    if not isinstance(model, HorizonModel):
+        raise InputError(f"direct.scatter needs a horizon model with a full profile (catalogue model with D=..., "
+                         f"dielectric_front(), a model file or HorizonModel), got {type(model).__name__}; a bare "
+                         f"ModeEquation has no frequency or profile: use rep.evaluate for its solutions")
     w = _check_omega(omega)
     if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
         raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
@@ -376,16 +381,23 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     eta_out = [md.norm for md in out_modes]
     resid = pseudo_unitarity_residual(S, eta_out, eta_in)
     message = f"{len(in_modes)} in-modes, {len(out_modes)} out-modes; window ({a:.6g}, {b:.6g})"
+    channel = True
     try:
         fig = hawking_figures(S, in_modes, out_modes, w, float(model.kappa))
-        if fig["occupation"] == 0.0:
+        h_norm = out_modes[fig["hawking_index"]].norm
+        if not any(md.norm == -h_norm for md in in_modes):
+            channel = False
+            fig["effective_temperature"] = None
             message += ("; omega is above the cut-off omega_max: no in-mode of opposite norm to the Hawking "
-                        "mode exists, so beta = 0 and thermal_ratio = 0 in the stationary picture")
+                        "mode exists (no Hawking channel), so beta = 0, thermal_ratio = 0 and "
+                        "effective_temperature = None")
     except ScatteringError:
+        channel = False
         fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
-                   effective_temperature=0.0, hawking_temperature=float(model.kappa) / (2 * math.pi))
+                   effective_temperature=None, hawking_temperature=float(model.kappa) / (2 * math.pi))
         message += ("; omega is above the cut-off omega_max: there is no propagating out-going mode on the "
-                    "exterior side (no Hawking channel), so beta = 0 and thermal_ratio = 0 are reported")
+                    "exterior side (no Hawking channel), so beta = 0, thermal_ratio = 0 and "
+                    "effective_temperature = None are reported")
     ratio_prev = _ratio(prev, in_modes, out_modes, fig)
     if fig["thermal_ratio"]:
         # resolution change of the ratio, and the noise floor of S (seen in the unitarity residual)
@@ -412,7 +424,7 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         kappa=float(model.kappa), dps=None, error_estimate=float(max(ratio_err, max(dev.values()))),
         success=success, message=message, method="direct",
         extra={"window": (a, b), "segments": len(nodes) - 1, "points": N, "resolution_difference": err,
-               "end_deviation": dev, "step": step})
+               "end_deviation": dev, "step": step}, hawking_channel=channel)
 
 
 def _ratio(S, in_modes, out_modes, fig):

@@ -81,8 +81,9 @@ class ScatteringResult:
         ``|beta/alpha|^2``.
     occupation : float
         ``|beta|^2``: the mean number of quanta in the Hawking out-mode.
-    effective_temperature : float
-        ``omega / ln(|alpha|^2/|beta|^2)``.
+    effective_temperature : float or None
+        ``omega / ln(|alpha|^2/|beta|^2)``; None where there is no Hawking
+        channel (``hawking_channel`` False).
     hawking_temperature : float
         ``kappa/(2 pi)``.
     kappa : float
@@ -94,6 +95,17 @@ class ScatteringResult:
     message : str
     method : str
         "contour" (near-horizon exact solution) or "direct" (position space).
+    hawking_channel : bool
+        False above a cut-off of the full profile (``model.omega_max``), where
+        no in-mode of opposite norm to the Hawking mode (or no Hawking
+        out-mode) exists: then thermal_ratio and occupation are 0.0 and
+        effective_temperature is None.
+    validity : Validity or None
+        How far the near-horizon result can be trusted for the full profile
+        (:class:`contourkit.profiles.validity.Validity`: thermal_ratio_error,
+        occupation_error, reliable, reason, tolerance); None for models with
+        no full profile (linear-profile catalogue models) and for results of
+        the direct solver.
     """
     omega: float
     in_modes: list
@@ -115,6 +127,8 @@ class ScatteringResult:
     message: str = ""
     method: str = "contour"
     extra: dict = field(default_factory=dict, repr=False)
+    hawking_channel: bool = True
+    validity: Any = field(default=None, repr=False)
 
     @property
     def modes(self):
@@ -122,17 +136,34 @@ class ScatteringResult:
         return list(self.in_modes) + list(self.out_modes)
 
     def as_row(self):
-        """A flat dict for tables (CSV/JSON)."""
-        T_ratio = self.effective_temperature / self.hawking_temperature if self.hawking_temperature else 0.0
+        """A flat dict for tables (CSV/JSON).
+
+        Missing values are None: ``effective_temperature`` and
+        ``temperature_ratio`` where there is no Hawking channel
+        (``hawking_channel`` False, above a cut-off; figures leave such rows
+        out), and the validity columns ``thermal_ratio_error``,
+        ``occupation_error``, ``reliable`` where no validity estimate exists.
+        """
+        T_eff = self.effective_temperature
+        if not self.hawking_channel or T_eff is None:
+            T_eff = T_ratio = None
+        else:
+            T_eff = float(T_eff)
+            T_ratio = T_eff / float(self.hawking_temperature) if self.hawking_temperature else None
+        v = self.validity
         return {"omega": float(self.omega), "occupation": float(self.occupation),
                 "thermal_ratio": float(self.thermal_ratio),
-                "effective_temperature": float(self.effective_temperature),
+                "effective_temperature": T_eff,
                 "hawking_temperature": float(self.hawking_temperature),
-                "temperature_ratio": float(T_ratio),
+                "temperature_ratio": T_ratio,
+                "hawking_channel": bool(self.hawking_channel),
                 "unitarity_residual": float(self.unitarity_residual),
                 "n_in": len(self.in_modes), "dps": self.dps if self.dps is not None else 16,
                 "error_estimate": float(self.error_estimate), "success": bool(self.success),
-                "method": self.method}
+                "method": self.method,
+                "thermal_ratio_error": None if v is None else float(v.thermal_ratio_error),
+                "occupation_error": None if v is None else float(v.occupation_error),
+                "reliable": None if v is None else bool(v.reliable)}
 
 
 def pseudo_unitarity_residual(S, eta_out, eta_in):

@@ -41,6 +41,7 @@ import mpmath
 import numpy as np
 
 from ..geometry import phase
+from ..symbolic import extensions
 from .bogoliubov import hawking_figures
 from ..geometry.decompose import coefficient, decompose
 from ..errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
@@ -156,7 +157,7 @@ def _side_constants(rep, contours, dd, side, dps):
     return modes, N
 
 
-def scatter(model, omega, *, dps=None):
+def scatter(model, omega, *, dps=None, validity_tol=1e-2):
     """Near-horizon S-matrix of a horizon model at one frequency.
 
     Parameters
@@ -171,10 +172,20 @@ def scatter(model, omega, *, dps=None):
         to ``10**-dps``; ``result.dps`` reports the precision used.  The
         geometry is always double precision (it is made of integers).  With
         dps given, thermal_ratio, occupation, alpha and beta are mpmath numbers.
+    validity_tol : float in (0, 1) or None
+        For a model with a full profile (uniform asymptotic regions), the
+        relative deviation from the full profile's thermal ratio and
+        occupation below which ``res.validity.reliable`` is True (default
+        1e-2); a :class:`~contourkit.errors.ValidityWarning` is issued when
+        it is not.  The estimate costs one full-profile solve
+        (:mod:`contourkit.profiles.validity`); None skips it.
 
     Returns
     -------
     ScatteringResult
+        ``hawking_channel`` is False above a cut-off of the full profile
+        (then thermal_ratio 0.0, effective_temperature None);
+        ``validity`` is None for models without a full profile.
 
     Examples
     --------
@@ -185,20 +196,51 @@ def scatter(model, omega, *, dps=None):
     >>> res.unitarity_residual < 1e-10
     True
     """
-    return _scatter(model, omega, dps, None)
+    check_dps(dps)
+    check_validity_tol(validity_tol)
+    res = _scatter(model, omega, dps, None)
+    return full_profile_checks(model, [res], validity_tol)[0]
+
+
+#: bounds of a requested number of digits (dps=)
+DPS_MIN, DPS_MAX = 5, 5000
+
+
+def check_dps(dps):
+    """A user's dps: None or an integer with DPS_MIN <= dps <= DPS_MAX (InputError otherwise)."""
+    if dps is None:
+        return None
+    if isinstance(dps, bool) or not isinstance(dps, (int, np.integer)):
+        raise InputError(f"dps must be an integer number of digits ({DPS_MIN} to {DPS_MAX}) or None, got {dps!r}")
+    if not DPS_MIN <= dps <= DPS_MAX:
+        raise InputError(f"dps = {dps} is outside {DPS_MIN} <= dps <= {DPS_MAX}; ask for between {DPS_MIN} and "
+                         f"{DPS_MAX} correct digits (double precision figures need about 16)")
+    return int(dps)
+
+
+def check_validity_tol(tol):
+    """validity_tol: None or a number in (0, 1)."""
+    if tol is None:
+        return None
+    if isinstance(tol, bool) or not isinstance(tol, (int, float, np.floating)) or not 0 < tol < 1:
+        raise InputError(f"validity_tol must be a number in (0, 1) (the relative deviation from the full "
+                         f"profile accepted as reliable, default 1e-2) or None to skip the estimate, got {tol!r}")
+    return float(tol)
+
+
+def full_profile_checks(model, results, validity_tol, stacklevel=5):
+    """Cut-off and validity against the full profile, from the profiles layer through the registry."""
+    if "full_profile" not in extensions.provided():
+        return results
+    return extensions.call("full_profile", model, results, tolerance=validity_tol, stacklevel=stacklevel)
 
 
 def _prepare(model, omega, dps):
     """Checked frequency and target digits; warns above the full profile's cut-off."""
     w = _check_omega(omega)
-    wmax = model.omega_max if getattr(model, "flow_D", None) is not None else None
-    if wmax is not None and w >= wmax:
-        warnings.warn(f"omega = {w} is at or above the cut-off omega_max = {wmax:.6g} of the full profile: "
-                      f"dispersive branches coalesce there and the near-horizon result no longer describes "
-                      f"the flow; use contourkit.direct.scatter for the full profile", ContourkitWarning,
-                      stacklevel=4)
-    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1):
-        raise InputError(f"dps must be a positive integer, got {dps!r}")
+    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1
+                            or dps > DPS_MAX):
+        raise InputError(f"dps must be an integer number of digits from 1 to {DPS_MAX}, got {dps!r}")
     return w, (int(dps) if dps is not None else 16)
 
 

@@ -24,7 +24,8 @@ import numpy as np
 
 from ..errors import AccuracyWarning, InputError, ScatteringError
 from .results import RowTable
-from .smatrix import _finish, _prepare, _result, _scatter
+from .smatrix import (_finish, _prepare, _result, _scatter, check_dps, check_validity_tol,
+                      full_profile_checks)
 
 
 def _continued(model, family, state, omega, dps, geometry=None):
@@ -75,8 +76,11 @@ class Spectrum(RowTable):
     rows : list of dict
         Keys: omega, occupation (|beta|^2), thermal_ratio (|beta/alpha|^2),
         effective_temperature, hawking_temperature, temperature_ratio
-        (T_eff/T_H), unitarity_residual, n_in, dps (working precision used),
-        error_estimate, success, method, message.
+        (T_eff/T_H), hawking_channel, unitarity_residual, n_in, dps (working
+        precision used), error_estimate, success, method, thermal_ratio_error,
+        occupation_error, reliable (the validity estimate; None without one),
+        message.  effective_temperature and temperature_ratio are None where
+        hawking_channel is False (above a cut-off).
     results : list of ScatteringResult
     """
 
@@ -85,8 +89,16 @@ class Spectrum(RowTable):
         self.results = results
 
     def column(self, key):
-        """One column as a numpy array (floats)."""
-        return np.array([float(v) for v in super().column(key)])
+        """One column as a numpy array (floats); a masked array where some rows have no value (None).
+
+        Above a cut-off (``hawking_channel`` False) ``effective_temperature``
+        and ``temperature_ratio`` are missing; figures leave those rows out.
+        """
+        vals = super().column(key)
+        if any(v is None for v in vals):
+            return np.ma.masked_array([0.0 if v is None else float(v) for v in vals],
+                                      mask=[v is None for v in vals])
+        return np.array([float(v) for v in vals])
 
 
 def _sweep(args):
@@ -130,7 +142,7 @@ def _sweep(args):
     return out
 
 
-def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, follow=True):
+def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, follow=True, validity_tol=1e-2):
     """Scattering figures over frequencies, correct also for exponentially small |beta|^2.
 
     Each frequency gets the S-matrix of :func:`scatter`: the geometry is traced
@@ -156,6 +168,10 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
         checked (matching, labels, unitarity) and traced afresh if a check
         fails; ``results[i].extra["geometry"]`` says which was done.  False
         traces every frequency (as :func:`scatter` does).
+    validity_tol : float in (0, 1) or None, tolerance of ``validity.reliable``
+        for models with a full profile (default 1e-2; None: no estimate).  The
+        estimate costs at most six full-profile solves per spectrum, spread
+        over the frequencies (:mod:`contourkit.profiles.validity`).
 
     Returns
     -------
@@ -176,6 +192,8 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
         raise InputError("omegas is empty; give at least one frequency")
     if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
         raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
+    check_dps(dps)
+    check_validity_tol(validity_tol)
     digits = int(dps) if dps is not None else max(1, int(math.ceil(-math.log10(rtol))))
     if isinstance(workers, bool) or not isinstance(workers, (int, np.integer)) or workers < 1:
         raise InputError(f"workers must be a positive integer, got {workers!r}")
@@ -195,6 +213,7 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
     else:
         for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, progress))):
             done[i] = r
+    full_profile_checks(model, done, validity_tol, stacklevel=4)
     rows = []
     for res in done:
         row = res.as_row()
