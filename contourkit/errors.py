@@ -26,6 +26,10 @@ class HorizonError(ModelError):
     """No horizon, or no unique horizon, was found in the profile."""
 
 
+class ModelFileHorizonError(ModelFileError, HorizonError):
+    """The horizon of a model file is not usable (a position that is no horizon, kappa not finite, ...)."""
+
+
 class ContourError(ContourkitError):
     """A contour is unknown, does not converge, or belongs elsewhere."""
 
@@ -60,6 +64,6 @@ class ValidityWarning(ContourkitWarning):
 
 __all__ = [
     "ContourkitError", "InputError", "ModelError", "ModelFileError",
-    "HorizonError", "ContourError", "AccuracyError", "ScatteringError",
+    "HorizonError", "ModelFileHorizonError", "ContourError", "AccuracyError", "ScatteringError",
     "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning", "ValidityWarning",
 ]

@@ -74,6 +74,20 @@ def _profile_substitutions(profiles, x, params):
     return subs
 
 
+def checked_kappa(kappa, xh):
+    """kappa if it is a finite nonzero number, else HorizonError (e.g. a profile with a kink at x_H)."""
+    try:
+        val = float(kappa)
+    except (TypeError, ValueError, OverflowError):
+        val = float("nan")
+    if not np.isfinite(val) or val == 0:
+        raise HorizonError(f"the surface gravity kappa at the horizon x = {xh:g} is {val!r} (not a finite nonzero "
+                           f"number): the profile has no finite nonzero slope there (a kink such as sqrt(x**2) "
+                           f"or abs(x), or a flat point); use a profile that is smooth with a nonzero slope at "
+                           f"the horizon")
+    return val
+
+
 class HorizonModel:
     """A mode equation with profile functions, linearised at its horizon.
 
@@ -118,7 +132,7 @@ class HorizonModel:
         if horizon is None:
             horizon = self._find_horizon()
         self.horizon = horizon
-        self.kappa = self._surface_gravity(horizon)
+        self.kappa = checked_kappa(self._surface_gravity(horizon), horizon)
         # exact decimals of any Float (a numerically located horizon), never a guessed rational
         self._lin = [(exact_expr(a), exact_expr(b)) for a, b in linearise(self.g, x, horizon)]
         self._eq_cache = {}
