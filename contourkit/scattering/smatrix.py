@@ -44,6 +44,7 @@ from ..geometry import phase
 from ..symbolic import extensions
 from .bogoliubov import hawking_figures
 from ..geometry.decompose import coefficient, decompose
+from ..geometry.tracking import track
 from ..errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
 from .modes import DispersionDerivatives, catalogue
 from .results import Mode, ScatteringResult
@@ -123,25 +124,56 @@ def _sheet_factors(rep, crit_a, crit_b):
 
 
 def _side_geometry(rep, contours, dd, sign, kappa):
-    """Double-precision geometry on one side: thimbles, crossings, stability at 2X."""
+    """Double-precision geometry on one side: thimbles, crossings, stability at 2X.
+
+    The decomposition at X is compared with the one at 2X thimble by thimble,
+    the critical points being followed continuously from X to 2X
+    (:func:`contourkit.geometry.tracking.track`: a root finder may list them
+    in another order).  Where the two still differ (a Stokes line crossed
+    between X and 2X), the geometry moves further out, X -> 2X, up to
+    ``_STOKES_DOUBLINGS`` times, until two consecutive positions agree.
+    """
     X = _asymptotic_x(rep, sign)
     kj = rep._kj
 
     def near_branch(s):
         # descent arms are needed only where a loop constant is read off (long-wavelength modes)
         return bool(kj.size) and float(np.min(np.abs(s - kj))) < 0.05 * max(1.0, float(np.max(np.abs(kj))))
-    g0, coeffs = decompose(rep, contours, X, descent=near_branch)
-    g2, cf2s = decompose(rep, contours, 2 * X, descent=False)
-    sheet = _sheet_factors(rep, g0.crit, g2.crit)
-    for c, cf2 in enumerate(cf2s):
-        a = sorted((i, abs(n)) for n, i, _ in coeffs[c])
-        b = sorted((i, abs(n * sheet[i])) for n, i, _ in cf2)
-        if [i for i, _ in a] != [i for i, _ in b] or any(abs(p - q) > 1e-6 * max(1.0, p, q)
-                                                         for (_, p), (_, q) in zip(a, b)):
-            raise ScatteringError(f"the thimble decomposition changes between x = {X} and {2 * X}: the "
-                                  f"asymptotic region is not reached (Stokes phenomenon); report this model")
+    X0 = X
+    for _ in range(_STOKES_DOUBLINGS + 1):
+        g0, coeffs = decompose(rep, contours, X, descent=near_branch)
+        g2, cf2s = decompose(rep, contours, 2 * X, descent=False)
+        if _stable(rep, g0, coeffs, g2, cf2s):
+            break
+        X *= 2
+    else:
+        raise ScatteringError(f"the thimble decomposition on the {'exterior' if sign > 0 else 'interior'} side "
+                              f"keeps changing from x = {X0:.6g} to {X:.6g} (Stokes lines crossed at every "
+                              f"doubling of x); the asymptotic region is not reached for this model at this "
+                              f"frequency: use contourkit.direct.scatter for a full profile, or another omega")
     lab = sign * min(abs(X), 0.1 / kappa) if kappa else None
     return X, g0, coeffs, lab
+
+
+#: how often the geometry may move outwards (X -> 2X) past Stokes lines before scatter gives up
+_STOKES_DOUBLINGS = 6
+
+
+def _stable(rep, g0, coeffs, g2, cf2s):
+    """The decompositions at X and 2X agree thimble by thimble (critical points followed from X to 2X)."""
+    perm = track(rep, g0.xg, g2.xg, crit0=g0.crit, crit1=g2.crit)
+    if perm is None:
+        return False
+    inv = np.empty(len(perm), dtype=int)
+    inv[perm] = np.arange(len(perm))
+    sheet = _sheet_factors(rep, g0.crit, g2.crit[perm])
+    for c, cf2 in enumerate(cf2s):
+        a = sorted((i, abs(n)) for n, i, _ in coeffs[c])
+        b = sorted((int(inv[i]), abs(n * sheet[inv[i]])) for n, i, _ in cf2)
+        if [i for i, _ in a] != [i for i, _ in b] or any(abs(p - q) > 1e-6 * max(1.0, p, q)
+                                                         for (_, p), (_, q) in zip(a, b)):
+            return False
+    return True
 
 
 def _side_constants(rep, contours, dd, side, dps):
