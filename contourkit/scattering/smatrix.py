@@ -45,7 +45,7 @@ from ..symbolic import extensions
 from .bogoliubov import hawking_figures
 from ..geometry.decompose import coefficient, decompose
 from ..geometry.tracking import track
-from ..errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
+from ..errors import AccuracyError, AccuracyWarning, ContourError, InputError, ScatteringError
 from .modes import DispersionDerivatives, catalogue
 from .results import Mode, ScatteringResult
 
@@ -296,7 +296,13 @@ def _scatter(model, omega, dps, keep):
         return _nondispersive(model, rep, w, kappa, max(target, 20), user_dps)
     contours = rep.basis()
     dd = DispersionDerivatives(model, w, eq)
-    sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
+    try:
+        sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
+    except (AccuracyError, ContourError) as exc:
+        # the geometry's own advice names positions x that scatter chooses itself
+        raise ScatteringError(f"the near-horizon geometry at omega = {w:g} could not be traced "
+                              f"({str(exc).split(';')[0]}); scatter chooses the positions itself, so try a "
+                              f"slightly different omega, or contourkit.direct.scatter for a full profile") from exc
     if keep is not None and keep.get("fast") is not None:
         # a spectrum at modest accuracy: labels once, then the caller's fast evaluation (spectra.py)
         mods = [_side_constants(rep, contours, dd, sd, target + 10)[0] for sd in sides]

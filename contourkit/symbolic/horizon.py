@@ -46,7 +46,7 @@ def _normalise_parameters(parameters):
         s = sp.Symbol(s) if isinstance(s, str) else s
         if not isinstance(s, sp.Symbol):
             raise InputError(f"parameter names must be strings or sympy Symbols, got {s!r}")
-        out[s] = exact(v)
+        out[s] = exact(v, f"the parameter {s}")
     return out
 
 
@@ -289,7 +289,7 @@ class HorizonModel:
             omega = getattr(self, "_default_omega", None)
             if omega is None:
                 raise InputError("give the frequency: model.mode_equation(omega)")
-        w = exact(omega)
+        w = exact(omega, "omega")
         key = w
         if key not in self._eq_cache:
             X = self.x
