@@ -148,6 +148,19 @@ CASES = [
 ]
 
 
+#: messages that must name the actual problem (issue 12, "Misleading messages"); (must contain, must not)
+MESSAGES = {
+    "nan coefficient": ("non-finite", "source"),
+    "infinite coefficient": ("non-finite", "source"),
+    "nan parameter": ("parameter a", None),
+    "dps far too large": ("5000", None),
+    "direct on a ModeEquation": ("horizon model", None),
+    "compare on a string": ("horizon model", None),
+    "position not a horizon": ("m.toml", None),
+    "kink profile": ("kappa", None),
+}
+
+
 def test_enough_cases():
     assert len(CASES) >= 40
 
@@ -161,6 +174,10 @@ def test_bad_input(name, call, check, tmp_path):
                 call(tmp_path)
             msg = str(info.value)
             assert len(msg) > 20
+            want, avoid = MESSAGES.get(name, (None, None))
+            assert want is None or want in msg
+            assert avoid is None or avoid not in msg
+            assert "move x" not in msg
             if name != "no omega k term":      # that message is rewritten with the horizon orientation
                 assert "array(" not in msg and "np.float64" not in msg      # no numpy reprs in messages
         else:

@@ -172,9 +172,15 @@ def _arm_integral_mp(rep, x, arm, phi_sigma, n, dps, data, logs_sigma):
             lk = phase.continue_logs_mp(data, a, la, kk)
             v = mpmath.exp(phase.phi_mp(data, xm, kk, lk) - phi_sigma) * (b - a)
             return v * (mpmath.j * kk) ** n if n else v
-        # the chord's integrand is below e^-u relative to the saddle's: it needs u/ln(10) fewer digits
+        # the chord's integrand is below e^-u relative to the saddle's: it needs u/ln(10) fewer digits;
+        # it is integrated scaled by e^u (mpmath's error floor is absolute) and scaled back
         drop = int(arm.u[i] / math.log(10)) if dps >= COARSE_DPS and arm.u is not None else 0
-        with mpmath.workdps(max(20, mpmath.mp.dps - drop)):
+        if drop:
+            lift = mpmath.exp(mpmath.mpf(drop) * mpmath.log(10))
+            with mpmath.workdps(max(20, mpmath.mp.dps - drop)):
+                v, e = mpmath.quad(lambda t, f=f: f(t) * lift, [0, 1], error=True)
+            v, e = v / lift, e / lift
+        else:
             v, e = mpmath.quad(f, [0, 1], error=True)
         total += v
         err += e
