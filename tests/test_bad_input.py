@@ -81,6 +81,10 @@ CASES = [
         (W + K) ** 2 - sp.Symbol("c") * K ** 2 * X, omega=W, k=K, x=X), None),
     ("not polynomial in k", lambda tp: ck.HorizonModel.from_dispersion(
         (W + K) ** 2 - K ** 2 + X / K, omega=W, k=K, x=X), None),
+    ("dispersion as a string", lambda tp: ck.HorizonModel.from_dispersion("omega**2 - k**2", omega=W, k=K, x=X),
+     None),
+    ("symbol given as a string", lambda tp: ck.HorizonModel.from_dispersion(W ** 2 - K ** 2, omega="w", k=K, x=X),
+     None),
     ("nan parameter", lambda tp: ck.HorizonModel.from_dispersion(
         (W - (-1 + sp.Symbol("a") * X) * K) ** 2 - K ** 2, omega=W, k=K, x=X,
         parameters={"a": float("nan")}), None),

@@ -148,6 +148,13 @@ class HorizonModel:
         it is formally self-adjoint when D is real.  Normalise D so that
         positive-norm modes have ``dD/domega > 0``.
         """
+        if isinstance(D, str) or not isinstance(D, (sp.Basic, int, float)):
+            raise InputError(f"D must be a sympy expression in omega, k and x, got {type(D).__name__} "
+                             f"{str(D)[:40]!r}; build it with sympy, or write a model file and load it with "
+                             f"contourkit.load_model (its text is parsed safely, never evaluated)")
+        for name, sym in (("omega", omega), ("k", k), ("x", x)):
+            if not isinstance(sym, sp.Symbol):
+                raise InputError(f"{name} must be a sympy Symbol, got {type(sym).__name__} {sym!r}")
         params = _normalise_parameters(parameters)
         subs = _profile_substitutions(profiles, x, params)
         D = sp.sympify(D).subs(params).subs(subs).subs(omega, OMEGA).subs(k, KS)
