@@ -260,8 +260,12 @@ def check_validity_tol(tol):
     return float(tol)
 
 
-def full_profile_checks(model, results, validity_tol, stacklevel=5):
-    """Cut-off and validity against the full profile, from the profiles layer through the registry."""
+def full_profile_checks(model, results, validity_tol, stacklevel=7):
+    """Cut-off and validity against the full profile, from the profiles layer through the registry.
+
+    ``stacklevel`` 7 points the warnings at the user's ``model.scatter(...)`` or
+    ``model.spectrum(...)`` line (through two registry calls).
+    """
     if "full_profile" not in extensions.provided():
         return results
     return extensions.call("full_profile", model, results, tolerance=validity_tol, stacklevel=stacklevel)

@@ -213,7 +213,7 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, progress=False, workers=1, 
     else:
         for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, progress))):
             done[i] = r
-    full_profile_checks(model, done, validity_tol, stacklevel=4)
+    full_profile_checks(model, done, validity_tol)
     rows = []
     for res in done:
         row = res.as_row()
