@@ -142,12 +142,17 @@ def has_full_profile(model):
 def hawking_channel(model, omega):
     """Whether the full profile has a Hawking channel at omega (mode content between cut-offs).
 
-    The channel exists when the exterior has a propagating out-mode and some
-    in-mode has the opposite norm to it.  The mode content changes only at
-    cut-offs, so it is found once per interval between consecutive cut-offs.
+    Below the lowest cut-off it exists.  Above a cut-off it exists when the
+    exterior has a propagating out-mode and some in-mode of the uniform regions
+    has the opposite norm to it.  The mode content changes only at cut-offs,
+    so it is found once per interval between consecutive cut-offs.
     """
     cuts = sorted({c.omega for c in model_cutoffs(model)})
     i = bisect.bisect_right(cuts, omega)
+    if i == 0:
+        # below every cut-off the horizon radiates (for a non-dispersive flow the partner in-modes
+        # come from the horizon itself and are not plane waves of the uniform regions)
+        return True
     st = _store(model).setdefault("channel", {})
     if i not in st:
         lo = cuts[i - 1] if i else 0.0

@@ -167,3 +167,16 @@ def test_model_file_with_tanh_profile_gets_validity_and_cutoff(tmp_path):
     assert row["effective_temperature"] is None and row["temperature_ratio"] is None
     res, cats = _scatter(m, 1.5 * m.kappa)
     assert res.validity is not None and res.validity.thermal_ratio_error < 1e-2
+
+
+def test_nondispersive_tanh_flow_keeps_its_hawking_channel():
+    """A non-dispersive tanh flow has no cut-off and no plane-wave partner in-mode (its partner
+    comes from the horizon): the channel exists at every omega, and the near-horizon thermal
+    ratio is exp(-2 pi omega/kappa) (Hawking 1975; Unruh 1976).  Found while trying the checks:
+    the plane-wave test alone had reported no channel."""
+    from contourkit.catalogue import nondispersive_flow
+    m = nondispersive_flow(kappa=0.05, D=0.5)
+    res, cats = _scatter(m, 0.05)
+    assert res.hawking_channel is True and ck.ContourkitWarning not in cats
+    assert abs(res.thermal_ratio / math.exp(-2 * math.pi * 0.05 / 0.05) - 1) < 1e-12
+    assert res.validity.method == "non-dispersive"
