@@ -15,7 +15,7 @@ import sys
 
 from .errors import (AccuracyError, AccuracyWarning, CoalescenceWarning, ContourError,
                      ContourkitError, ContourkitWarning, HorizonError, InputError,
-                     ModelError, ModelFileError, ScatteringError)
+                     ModelError, ModelFileError, ScatteringError, ValidityWarning)
 from . import symbolic, geometry, evaluation, scattering, profiles, greybody, scans
 from .symbolic import HorizonModel, ModeEquation, extensions, load_model
 from .geometry import Contour
@@ -31,7 +31,8 @@ sys.modules[__name__ + ".direct"] = direct
 __all__ = ["ModeEquation", "HorizonModel", "Contour", "load_model", "compare", "catalogue", "direct", "greybody",
            "plotting", "scattering", "fourier", "asymptotics", "modes",
            "ContourkitError", "InputError", "ModelError", "ModelFileError", "HorizonError", "ContourError",
-           "AccuracyError", "ScatteringError", "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning"]
+           "AccuracyError", "ScatteringError", "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning",
+           "ValidityWarning"]
 
 
 def _load_optional(name):

@@ -39,8 +39,9 @@ def _flow_profile(kappa, D):
     if D is None:
         return -1 + kappa * _x, (-1e300, 1e300)
     D = _positive("D", D)
-    if D >= 1:
-        raise InputError(f"D = {D} >= 1 makes v vanish or change sign; take 0 < D < 1")
+    if D >= 2:
+        raise InputError(f"D = {D} >= 2 makes v = -1 + D tanh(kappa x / D) reach +1 on the exterior side (a second "
+                         f"horizon, of the fluid moving towards +x); take 0 < D < 2")
     return -1 + D * sp.tanh(kappa * _x / D), None
 
 
@@ -110,7 +111,8 @@ def quartic_flow(kappa=0.05, Lambda=2.5, branch="superluminal", D=None, *, hole=
         surface waves on deep water at long wavelength).
     D : float, optional
         None: ``v = -1 + kappa x``; else ``v = -1 + D tanh(kappa x / D)``
-        with 0 < D < 1 (uniform asymptotic regions v -> -1 +- D).
+        with 0 < D < 2 (uniform asymptotic regions v -> -1 +- D; D = 1 makes
+        the far exterior static, 1 < D < 2 reverses its flow, still subsonic).
     hole : {"black", "white"}
         "white": ``v(x) -> v(-x)`` (``v = -1 - kappa x`` near x = 0), the time
         reverse of the black hole with the same flow direction; subsonic side

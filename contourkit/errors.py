@@ -26,6 +26,10 @@ class HorizonError(ModelError):
     """No horizon, or no unique horizon, was found in the profile."""
 
 
+class ModelFileHorizonError(ModelFileError, HorizonError):
+    """The horizon of a model file is not usable (a position that is no horizon, kappa not finite, ...)."""
+
+
 class ContourError(ContourkitError):
     """A contour is unknown, does not converge, or belongs elsewhere."""
 
@@ -50,8 +54,16 @@ class CoalescenceWarning(ContourkitWarning):
     """Two saddles, or a saddle and a singular point, nearly coincide."""
 
 
+class ValidityWarning(ContourkitWarning):
+    """A near-horizon result is exact for the linearised model but not a reliable value for the full profile.
+
+    Issued whenever ``result.validity.reliable`` is False (see
+    :mod:`contourkit.profiles.validity`).
+    """
+
+
 __all__ = [
     "ContourkitError", "InputError", "ModelError", "ModelFileError",
-    "HorizonError", "ContourError", "AccuracyError", "ScatteringError",
-    "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning",
+    "HorizonError", "ModelFileHorizonError", "ContourError", "AccuracyError", "ScatteringError",
+    "ContourkitWarning", "AccuracyWarning", "CoalescenceWarning", "ValidityWarning",
 ]

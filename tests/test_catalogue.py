@@ -34,7 +34,7 @@ def test_catalogue_bad_parameters():
     with pytest.raises(ck.InputError, match="branch"):
         ck.catalogue.quartic_flow(branch="sideways")
     with pytest.raises(ck.InputError, match="D"):
-        ck.catalogue.quartic_flow(D=1.5)
+        ck.catalogue.quartic_flow(D=2.5)
     with pytest.raises(ck.InputError, match="speed of light"):
         ck.catalogue.dielectric_front(u=1.2)
     with pytest.raises(ck.InputError, match="resonance"):
@@ -216,3 +216,26 @@ def test_horizon_pair_geometry():
 def test_horizon_pair_bad_parameters(kw, match):
     with pytest.raises(ck.InputError, match=match):
         ck.catalogue.horizon_pair(**kw)
+
+
+@pytest.mark.parametrize("D", [1.0, 1.5])
+def test_quartic_flow_with_static_or_reversed_far_exterior(D):
+    """D = 1 (v -> 0 far out: a static exterior) and D = 1.5 (v -> +0.5) build; omega_max is the
+    supersonic interior's closed form omega_max = Lambda (u - s) sqrt(s^2 - 1),
+    s = (u + sqrt(u^2 + 8))/4, u = 1 + D (REFERENCES.md, derived by maximising omega on the
+    negative-norm branch; the subsonic exterior has no cut-off for superluminal dispersion).
+    The full-profile solver conserves the norm there (pseudo-unitarity, common practice)."""
+    import math
+    m = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5, D=D)
+    u = 1 + D
+    s = (u + math.sqrt(u * u + 8)) / 4
+    assert abs(m.omega_max / (2.5 * (u - s) * math.sqrt(s * s - 1)) - 1) < 1e-10
+    assert m.horizon == 0.0 and abs(m.kappa - 0.05) < 1e-14
+    d = ck.direct.scatter(m, 0.05)
+    assert d.unitarity_residual < 1e-8 and len(d.in_modes) == 3
+
+
+def test_quartic_flow_with_second_horizon_refused():
+    """D >= 2 makes v reach +1 in the exterior (a second horizon): refused with the fix."""
+    with pytest.raises(ck.InputError, match="0 < D < 2"):
+        ck.catalogue.quartic_flow(D=2.0)

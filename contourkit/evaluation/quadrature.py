@@ -104,6 +104,54 @@ def _arm_integral_np(rep, x, arm, logs_sigma, phi_sigma, n):
     return tot[16], abs(tot[16] - tot[10]), evals
 
 
+#: from this many digits on, mpmath integrates an arm on fewer, longer chords (_coarse_vertices)
+COARSE_DPS = 60
+
+
+def _coarse_vertices(rep, arm):
+    """Indices of arm vertices for chords that hug the traced arm; far fewer than the vertices.
+
+    The arm is traced in double precision with steps of about one unit of
+    ``u = Re(Phi_sigma - Phi)``; at hundreds of digits a tanh-sinh rule on
+    each step costs too much.  A chord from vertex i may reach vertex j while
+    the growth of u stays below ``max(2, u_i)`` (so the integrand changes by
+    a bounded factor relative to its size, geometrically coarser far out) and
+    every vertex in between lies within a tenth of the chord's length and a
+    quarter of the distance to the nearest singular point from the chord:
+    the integrand is analytic between chord and arm, so by Cauchy's theorem
+    the chords give the same integral.
+    """
+    k = np.asarray(arm.k)
+    u = np.asarray(arm.u) if arm.u is not None and len(arm.u) == len(k) else None
+    if u is None or len(k) < 4:
+        return list(range(len(k)))
+    kj = rep._kj
+    out = [0]
+    i = 0
+    n = len(k)
+    while i < n - 1:
+        j = i + 1
+        while j + 1 < n:
+            c = j + 1
+            if u[c] - u[i] > max(2.0, abs(u[i])):
+                break
+            a, b = k[i], k[c]
+            L = abs(b - a)
+            mid = k[i + 1:c]
+            t = np.clip(((mid - a) * np.conj(b - a)).real / max(L * L, 1e-300), 0.0, 1.0)
+            dev = np.abs(mid - (a + t * (b - a))) if mid.size else np.zeros(0)
+            clear = math.inf
+            if kj.size:
+                tt = np.clip(((kj - a) * np.conj(b - a)).real / max(L * L, 1e-300), 0.0, 1.0)
+                clear = float(np.min(np.abs(kj - (a + tt * (b - a)))))
+            if dev.size and float(dev.max()) > min(0.1 * L, 0.25 * clear):
+                break
+            j = c
+        out.append(j)
+        i = j
+    return out
+
+
 def _arm_integral_mp(rep, x, arm, phi_sigma, n, dps, data, logs_sigma):
     """Integral along an arm in mpmath at dps digits; returns (value, error, evaluations)."""
     total = mpmath.mpc(0)
@@ -112,9 +160,10 @@ def _arm_integral_mp(rep, x, arm, phi_sigma, n, dps, data, logs_sigma):
     xm = mpmath.mpf(x)
     lg_prev = logs_sigma
     kprev = mpmath.mpc(arm.k[0])
-    for i in range(len(arm.k) - 1):
+    keep = _coarse_vertices(rep, arm) if dps >= COARSE_DPS else range(len(arm.k))
+    for i, i1 in zip(keep[:-1], keep[1:]):
         a = mpmath.mpc(arm.k[i])
-        b = mpmath.mpc(arm.k[i + 1])
+        b = mpmath.mpc(arm.k[i1])
         la = phase.continue_logs_mp(data, kprev, lg_prev, a) if i else lg_prev
 
         def f(t, a=a, b=b, la=la):
@@ -123,7 +172,16 @@ def _arm_integral_mp(rep, x, arm, phi_sigma, n, dps, data, logs_sigma):
             lk = phase.continue_logs_mp(data, a, la, kk)
             v = mpmath.exp(phase.phi_mp(data, xm, kk, lk) - phi_sigma) * (b - a)
             return v * (mpmath.j * kk) ** n if n else v
-        v, e = mpmath.quad(f, [0, 1], error=True)
+        # the chord's integrand is below e^-u relative to the saddle's: it needs u/ln(10) fewer digits;
+        # it is integrated scaled by e^u (mpmath's error floor is absolute) and scaled back
+        drop = int(arm.u[i] / math.log(10)) if dps >= COARSE_DPS and arm.u is not None else 0
+        if drop:
+            lift = mpmath.exp(mpmath.mpf(drop) * mpmath.log(10))
+            with mpmath.workdps(max(20, mpmath.mp.dps - drop)):
+                v, e = mpmath.quad(lambda t, f=f: f(t) * lift, [0, 1], error=True)
+            v, e = v / lift, e / lift
+        else:
+            v, e = mpmath.quad(f, [0, 1], error=True)
         total += v
         err += e
         lg_prev, kprev = la, a

@@ -206,6 +206,37 @@ def _end_valley(rep, x, angle):
     return best, True
 
 
+def _leg(rep, x, kj, j, r, d, th, level, R0):
+    """Points of a loop's leg from ``kj + r d`` out to the valley along direction d.
+
+    A singular point k_i within ``rho_i`` of the straight leg (``rho_i`` = 0.3
+    times its distance to the nearest other singular point) is passed on the
+    right of the leg (seen from k_j outwards) by a half circle of radius
+    ``rho_i + |offset|`` centred on the leg, which keeps k_i on the left:
+    the bent loop is a solution as good as the straight one (its ends are in
+    the same valley); it differs from the loop passed on the other side by a
+    multiple of the loop around k_i.
+    """
+    pts = [kj + r * d]
+    blockers = []
+    for i, ki in enumerate(rep._kj):
+        if i == j:
+            continue
+        z = (ki - kj) / d
+        others = [abs(ki - p) for m, p in enumerate(rep._kj) if m != i]
+        rho = 0.3 * min(others + [1.0])
+        if z.real > r and abs(z.imag) < rho:
+            blockers.append((z.real, rho + abs(z.imag)))
+    for t, R in sorted(blockers):
+        c = kj + t * d
+        if abs(c - pts[-1]) <= R:          # two blockers close together: one wider detour
+            continue
+        pts += [c + R * d * cmath.exp(1j * phi) for phi in np.linspace(-math.pi, 0.0,
+                                                                        max(8, int(math.pi / 0.1)))]
+    start = pts[-1]
+    return pts + _ray_out(rep, x, start + 1e-3 * R0 * d, th, level, R0)
+
+
 def representative(rep, x, kind, params, crit, level):
     """A polyline (vertices, start logs) representing an elementary contour at x.
 
@@ -255,24 +286,11 @@ def representative(rep, x, kind, params, crit, level):
         d = cmath.exp(1j * th)
         others = [abs(kj - p) for p in list(rep._kj) if abs(kj - p) > 1e-12]
         r = 0.3 * min(others + [1.0, 0.3 * R0])
-        # the straight leg must not pass close to another singular point
-        # (x may be the slightly complex geometry point of decompose.py: test the leg direction at
-        # the real x as well, or a leg through a singular point is missed by ~1e-7 and its side is arbitrary)
-        dirs = [d]
-        if isinstance(x, complex) and x.imag != 0:
-            dirs.append(cmath.exp(1j * _valley(rep, x.real, params["valley"], j).center))
-        for i, ki in enumerate(rep._kj):
-            if i == j:
-                continue
-            if any(((ki - kj) / dd).real > 0 and abs(((ki - kj) / dd).imag) < 1e-9 * max(1.0, abs(ki - kj))
-                   for dd in dirs):
-                raise ContourError(f"the loop around {rep.singularities[j].point} towards valley {v.index} would run "
-                                   f"through the singular point {rep.singularities[i].point}; choose another valley "
-                                   f"(valley=...) or another cut_angle")
-        far = _ray_out(rep, x, kj + r * d, th, level, R0)
-        leg_in = far[::-1] + [kj + r * d]
+        # where the straight leg meets another singular point, the leg bends around it (see _leg)
+        far = _leg(rep, x, kj, j, r, d, th, level, R0)
+        leg_in = far[::-1]
         circle = _arc(kj, r, th, th + 2 * math.pi, max_step=0.15)
-        verts = leg_in + circle[1:] + far
+        verts = leg_in + circle[1:] + far[1:]
         # start logs: cut-plane branch; for k_j itself arg = th reduced into (cut, cut + 2 pi]
         p0 = verts[0]
         start_logs = phase.cut_plane_logs(rep, p0)[0]
@@ -297,10 +315,27 @@ def polyline_logs(rep, verts, start_logs):
     return out
 
 
+def _winding(rep, a, b):
+    """The winding of a valley-to-valley arc from a to b that does not cross the cut direction.
+
+    An arc that crosses the cuts carries the sheet factors ``exp(2 pi i nu_j)``
+    of every cut it crosses; with ``|Im nu|`` large that term swamps the rest
+    and the contour becomes numerically parallel to the loops (whose values
+    carry the same factor).  The counter-clockwise arc and the clockwise one
+    together go once around, so exactly one of them avoids the cut direction.
+    """
+    vs = rep.valleys
+    ca, cb = vs[a].center, vs[b].center
+    span = (cb - ca) % (2 * math.pi)
+    cut = (rep.cut_angle - ca) % (2 * math.pi)
+    return "cw" if 0 < cut < span else "ccw"
+
+
 def basis(rep, *, x=1.0):
     """Independent contours, as many as the ODE's order.
 
-    Valley-to-valley contours between consecutive valleys (counter-clockwise)
+    Valley-to-valley contours between consecutive valleys (on the arc that
+    does not cross the cut direction: counter-clockwise unless that arc would)
     and one loop around every branch point, pole and essential singularity,
     from the default valley.  For deg Q <= 1 the valley depends on the sign of
     x: the basis is for the side of x given (default x > 0).
@@ -310,7 +345,7 @@ def basis(rep, *, x=1.0):
     ContourError if the count differs from the order (degenerate exponents).
     """
     nv = len(rep.valleys) if rep.degree_Q >= 2 else 1
-    out = [Contour.between(i, i + 1) for i in range(nv - 1)] if rep.degree_Q >= 2 else []
+    out = [Contour.between(i, i + 1, _winding(rep, i, i + 1)) for i in range(nv - 1)] if rep.degree_Q >= 2 else []
     for s in rep.singularities:
         if s.kind in ("branch point", "pole", "essential"):
             out.append(Contour.loop(s.point))

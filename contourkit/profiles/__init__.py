@@ -5,10 +5,11 @@ Entry points: :func:`.direct.scatter`, :func:`.cutoff.omega_max`,
 :func:`.comparison.compare`.
 """
 from ..symbolic import extensions
-from . import cutoff, direct, turning
+from . import cutoff, direct, turning, validity
 from .comparison import compare
 
 extensions.provide("omega_max", cutoff.omega_max)
 extensions.provide("turning_points", turning.turning_points)
+extensions.provide("full_profile", validity.attach)
 
-__all__ = ["compare", "cutoff", "direct", "turning"]
+__all__ = ["compare", "cutoff", "direct", "turning", "validity"]

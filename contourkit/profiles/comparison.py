@@ -78,7 +78,7 @@ def _method_part(res, name, err):
         out[f"success_{name}"] = False
         out[f"message_{name}"] = err
         return out
-    T = float(res.effective_temperature)
+    T = float(res.effective_temperature) if res.effective_temperature is not None else math.inf
     return {f"occupation_{name}": float(res.occupation), f"thermal_ratio_{name}": float(res.thermal_ratio),
             f"effective_temperature_{name}": T if math.isfinite(T) else None,
             f"temperature_ratio_{name}": T / float(res.hawking_temperature) if math.isfinite(T) else None,
@@ -125,6 +125,10 @@ def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", c
     (2, 3)
     """
     from . import direct
+    from ..symbolic.horizon import HorizonModel
+    if not isinstance(model, HorizonModel):
+        raise InputError(f"compare needs a horizon model (catalogue, model file or HorizonModel), got "
+                         f"{type(model).__name__}; a bare ModeEquation has no frequency or profile to compare")
     if on_error not in ("raise", "record"):
         raise InputError(f"on_error must be 'raise' or 'record', got {on_error!r}")
     bad = set(methods) - {"contour", "direct"}
@@ -136,7 +140,15 @@ def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", c
         raise InputError(f"omegas must be a sequence of numbers, got {omegas!r}")
     if not ws:
         raise InputError("omegas is empty; give at least one frequency")
-    runners = {"contour": lambda w: model.scatter(w, **(contour_options or {})),
+    if contour_options is not None and not isinstance(contour_options, dict):
+        raise InputError(f"contour_options must be a dict of keyword arguments, got {contour_options!r}")
+    if direct_options is not None and not isinstance(direct_options, dict):
+        raise InputError(f"direct_options must be a dict of keyword arguments, got {direct_options!r}")
+    copts = dict(contour_options or {})
+    if "direct" in methods:
+        # the direct solver runs anyway: the comparison replaces the validity estimate's own solve
+        copts.setdefault("validity_tol", None)
+    runners = {"contour": lambda w: model.scatter(w, **copts),
                "direct": lambda w: direct.scatter(model, w, **(direct_options or {}))}
     kappa = float(model.kappa)
     rows, results = [], []

@@ -276,6 +276,11 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
     >>> [md.name for md in r.in_modes]
     ['ext-in-', 'ext-in+', 'ext-in+']
     """
+    from ..symbolic.horizon import HorizonModel
+    if not isinstance(model, HorizonModel):
+        raise InputError(f"direct.scatter needs a horizon model with a full profile (catalogue model with D=..., "
+                         f"dielectric_front(), a model file or HorizonModel), got {type(model).__name__}; a bare "
+                         f"ModeEquation has no frequency or profile: use rep.evaluate for its solutions")
     w = _check_omega(omega)
     cplx = isinstance(w, complex)
     wr = w.real if cplx else w
@@ -375,26 +380,35 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         resid = pseudo_unitarity_residual(S, eta_out, eta_in)
     cuts = model_cutoffs(model)
     kappa = float(model.kappa) if model.kappa is not None else 0.0
+    channel = True
     try:
         if model.horizon is None:
             raise _Horizonless()
         fig = oriented_figures(S, in_modes, out_modes, wr, kappa, orientation)
-        if fig["occupation"] == 0.0 and cuts and wr > cuts[0].omega:
-            message += ("; omega is above the cut-off omega_max: no in-mode of opposite norm to the Hawking "
-                        "mode exists, so beta = 0 and thermal_ratio = 0 in the stationary picture")
-        elif fig["occupation"] == 0.0:
-            message += ("; every in-mode has the norm sign of the Hawking mode (no opposite-norm in-mode in "
-                        "the asymptotic regions), so beta = 0 and thermal_ratio = 0")
+        # the Hawking mode is an out-mode (a column of S, an in-mode, for a white hole)
+        reverse = orientation is not None and orientation.time_reversed
+        hawking = (in_modes if reverse else out_modes)[fig["hawking_index"]]
+        partners = out_modes if reverse else in_modes
+        if not any(md.norm == -hawking.norm for md in partners):
+            channel = False
+            fig["effective_temperature"] = None
+            where = ("omega is above the cut-off omega_max: " if cuts and wr > cuts[0].omega else "")
+            message += (f"; {where}no mode of opposite norm to the Hawking mode exists in the asymptotic "
+                        f"regions (no Hawking channel), so beta = 0, thermal_ratio = 0 and "
+                        f"effective_temperature = None")
     except _Horizonless:
+        channel = False
         fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
-                   effective_temperature=0.0, hawking_temperature=0.0)
-        message += ("; horizonless flow: no Hawking channel (kappa = 0, thermal_ratio = 0); the mode conversion "
-                    "is in S")
+                   effective_temperature=None, hawking_temperature=0.0)
+        message += ("; horizonless flow: no Hawking channel (kappa = 0, thermal_ratio = 0, "
+                    "effective_temperature = None); the mode conversion is in S")
     except ScatteringError:
+        channel = False
         fig = dict(hawking_index=None, alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0,
-                   effective_temperature=0.0, hawking_temperature=kappa / (2 * math.pi))
+                   effective_temperature=None, hawking_temperature=kappa / (2 * math.pi))
         message += ("; omega is above the cut-off omega_max: there is no propagating out-going mode on the "
-                    "exterior side (no Hawking channel), so beta = 0 and thermal_ratio = 0 are reported")
+                    "exterior side (no Hawking channel), so beta = 0, thermal_ratio = 0 and "
+                    "effective_temperature = None are reported")
     ratio_prev = _ratio(prev, in_modes, out_modes, fig, orientation)
     if fig["thermal_ratio"]:
         # resolution change of the ratio, and the noise floor of S (seen in the unitarity residual)
@@ -425,7 +439,7 @@ def scatter(model, omega, *, window=None, rtol=1e-10, points=16, max_points=64, 
         extra={"window": (a, b), "segments": len(nodes) - 1, "points": N, "resolution_difference": err,
                "end_deviation": dev, "step": step,
                **({"hawking_channel_of_S": "column"} if orientation is not None and orientation.time_reversed
-                  else {})}, convention=orientation)
+                  else {})}, convention=orientation, hawking_channel=channel)
 
 
 class _Horizonless(Exception):

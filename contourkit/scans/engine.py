@@ -46,6 +46,7 @@ import warnings
 import numpy as np
 
 from ..errors import ContourkitError, InputError
+from ..scattering.smatrix import check_validity_tol, full_profile_checks
 from ..scattering.spectra import Spectrum, follow_rows, result_row
 from ..symbolic.horizon import HorizonModel
 from .fingerprint import fingerprint
@@ -117,8 +118,17 @@ def run_block(model, ws, method, options, record, on_row=None):
         try:
             if method == "contour" and isinstance(model, HorizonModel):
                 order = sorted(range(len(ws)), key=lambda i: ws[i])
-                follow_rows(model, [ws[i] for i in order], options["digits"], follow=options["follow"],
-                            record=record, on_result=lambda j, res, err: done(order[j], res, err))
+                held = []
+                try:
+                    follow_rows(model, [ws[i] for i in order], options["digits"], follow=options["follow"],
+                                record=record, on_result=lambda j, res, err: held.append((order[j], res, err)))
+                finally:
+                    # cut-off and validity against the full profile, once per block (profiles layer,
+                    # through the registry), then the block's rows in the order they finished
+                    full_profile_checks(model, [res for _, res, _ in held if res is not None],
+                                        options.get("validity_tol"))
+                    for i, res, err in held:
+                        done(i, res, err)
             else:
                 if method == "direct":
                     from ..profiles import direct
@@ -186,7 +196,8 @@ def _check(omegas, method, on_error, workers, scheduler, rtol, dps, follow, rest
 
 
 def spectrum(model, omegas, *, method="contour", on_error="raise", workers=None, scheduler=None, out=None,
-             progress=None, restart=False, rtol=None, dps=None, follow=True, direct_options=None):
+             progress=None, restart=False, rtol=None, dps=None, follow=True, direct_options=None,
+             validity_tol=1e-2):
     """Scattering figures over a frequency grid: one engine for every front end.
 
     Parameters
@@ -225,6 +236,13 @@ def spectrum(model, omegas, *, method="contour", on_error="raise", workers=None,
         Contour method: follow the geometry in omega (default True).
     direct_options : dict, optional
         Further keyword options of :func:`contourkit.direct.scatter`.
+    validity_tol : float in (0, 1) or None
+        Contour method, models with a full profile: tolerance of each row's
+        validity estimate (``reliable``, ``thermal_ratio_error``,
+        ``occupation_error``; :mod:`contourkit.profiles.validity`), default
+        1e-2; None skips the estimate.  It costs at most six full-profile
+        solves per block of the grid, and the rows of a block are written
+        when the block's estimate is done.
 
     Returns
     -------
@@ -258,8 +276,9 @@ def spectrum(model, omegas, *, method="contour", on_error="raise", workers=None,
     if method == "contour":
         r = 1e-12 if rtol is None else rtol
         digits = int(dps) if dps is not None else max(1, int(math.ceil(-math.log10(r))))
-        options = {"digits": digits, "follow": follow}
-        fp_options = {"rtol": r, "dps": dps, "follow": follow}
+        check_validity_tol(validity_tol)
+        options = {"digits": digits, "follow": follow, "validity_tol": validity_tol}
+        fp_options = {"rtol": r, "dps": dps, "follow": follow, "validity_tol": validity_tol}
     else:
         opts = dict(direct_options or {})
         if rtol is not None:

@@ -82,8 +82,9 @@ class ScatteringResult:
     occupation : float
         ``|beta|^2``: the mean number of quanta in the Hawking out-mode.
     effective_temperature : float or None
-        (None for a complex omega: the continued S-matrix is not a spectrum)
-        ``omega / ln(|alpha|^2/|beta|^2)``.
+        ``omega / ln(|alpha|^2/|beta|^2)``; None where there is no Hawking
+        channel (``hawking_channel`` False) and for a complex omega (the
+        continued S-matrix is not a spectrum).
     temperature_ratio : float (property)
         ``effective_temperature / hawking_temperature``.
     hawking_temperature : float
@@ -104,6 +105,17 @@ class ScatteringResult:
         side).  Positions and wavenumbers of the modes are in the user's x.
         For a white hole ``hawking_index`` is a column of S (the
         long-wavelength in-mode; see :mod:`contourkit.scattering.oriented`).
+    hawking_channel : bool
+        False above a cut-off of the full profile (``model.omega_max``), where
+        no in-mode of opposite norm to the Hawking mode (or no Hawking
+        out-mode) exists: then thermal_ratio and occupation are 0.0 and
+        effective_temperature is None.
+    validity : Validity or None
+        How far the near-horizon result can be trusted for the full profile
+        (:class:`contourkit.profiles.validity.Validity`: thermal_ratio_error,
+        occupation_error, reliable, reason, tolerance); None for models with
+        no full profile (linear-profile catalogue models) and for results of
+        the direct solver.
     """
     omega: float
     in_modes: list
@@ -126,6 +138,8 @@ class ScatteringResult:
     method: str = "contour"
     extra: dict = field(default_factory=dict, repr=False)
     convention: Any = field(default=None, repr=False)
+    hawking_channel: bool = True
+    validity: Any = field(default=None, repr=False)
 
     @property
     def modes(self):
@@ -149,24 +163,35 @@ class ScatteringResult:
     def as_row(self):
         """A flat dict for tables (CSV/JSON).
 
-        For a complex omega (the continued S-matrix of ``direct.scatter``) the
-        row holds ``omega`` as a complex number and None for the temperatures.
+        Missing values are None: ``effective_temperature`` and
+        ``temperature_ratio`` where there is no Hawking channel
+        (``hawking_channel`` False, above a cut-off; figures leave such rows
+        out) or for a complex omega (the continued S-matrix of
+        ``direct.scatter``, whose row holds ``omega`` as a complex number),
+        and the validity columns ``thermal_ratio_error``,
+        ``occupation_error``, ``reliable`` where no validity estimate exists.
         """
-        if self.effective_temperature is None:
+        T_eff = self.effective_temperature
+        if not self.hawking_channel or T_eff is None:
             T_eff = T_ratio = None
         else:
-            T_eff = float(self.effective_temperature)
-            T_ratio = float(T_eff / self.hawking_temperature) if self.hawking_temperature else 0.0
+            T_eff = float(T_eff)
+            T_ratio = T_eff / float(self.hawking_temperature) if self.hawking_temperature else None
+        v = self.validity
         w = complex(self.omega) if isinstance(self.omega, complex) else float(self.omega)
         return {"omega": w, "occupation": float(self.occupation),
                 "thermal_ratio": float(self.thermal_ratio),
                 "effective_temperature": T_eff,
                 "hawking_temperature": float(self.hawking_temperature),
                 "temperature_ratio": T_ratio,
+                "hawking_channel": bool(self.hawking_channel),
                 "unitarity_residual": float(self.unitarity_residual),
                 "n_in": len(self.in_modes), "dps": self.dps if self.dps is not None else 16,
                 "error_estimate": float(self.error_estimate), "success": bool(self.success),
-                "method": self.method}
+                "method": self.method,
+                "thermal_ratio_error": None if v is None else float(v.thermal_ratio_error),
+                "occupation_error": None if v is None else float(v.occupation_error),
+                "reliable": None if v is None else bool(v.reliable)}
 
 
 def pseudo_unitarity_residual(S, eta_out, eta_in):

@@ -41,9 +41,11 @@ import mpmath
 import numpy as np
 
 from ..geometry import phase
+from ..symbolic import extensions
 from .bogoliubov import hawking_figures
 from ..geometry.decompose import coefficient, decompose
-from ..errors import AccuracyWarning, ContourkitWarning, InputError, ScatteringError
+from ..geometry.tracking import track
+from ..errors import AccuracyError, AccuracyWarning, ContourError, InputError, ScatteringError
 from .modes import DispersionDerivatives, catalogue
 from .results import Mode, ScatteringResult
 
@@ -122,25 +124,56 @@ def _sheet_factors(rep, crit_a, crit_b):
 
 
 def _side_geometry(rep, contours, dd, sign, kappa):
-    """Double-precision geometry on one side: thimbles, crossings, stability at 2X."""
+    """Double-precision geometry on one side: thimbles, crossings, stability at 2X.
+
+    The decomposition at X is compared with the one at 2X thimble by thimble,
+    the critical points being followed continuously from X to 2X
+    (:func:`contourkit.geometry.tracking.track`: a root finder may list them
+    in another order).  Where the two still differ (a Stokes line crossed
+    between X and 2X), the geometry moves further out, X -> 2X, up to
+    ``_STOKES_DOUBLINGS`` times, until two consecutive positions agree.
+    """
     X = _asymptotic_x(rep, sign)
     kj = rep._kj
 
     def near_branch(s):
         # descent arms are needed only where a loop constant is read off (long-wavelength modes)
         return bool(kj.size) and float(np.min(np.abs(s - kj))) < 0.05 * max(1.0, float(np.max(np.abs(kj))))
-    g0, coeffs = decompose(rep, contours, X, descent=near_branch)
-    g2, cf2s = decompose(rep, contours, 2 * X, descent=False)
-    sheet = _sheet_factors(rep, g0.crit, g2.crit)
-    for c, cf2 in enumerate(cf2s):
-        a = sorted((i, abs(n)) for n, i, _ in coeffs[c])
-        b = sorted((i, abs(n * sheet[i])) for n, i, _ in cf2)
-        if [i for i, _ in a] != [i for i, _ in b] or any(abs(p - q) > 1e-6 * max(1.0, p, q)
-                                                         for (_, p), (_, q) in zip(a, b)):
-            raise ScatteringError(f"the thimble decomposition changes between x = {X} and {2 * X}: the "
-                                  f"asymptotic region is not reached (Stokes phenomenon); report this model")
+    X0 = X
+    for _ in range(_STOKES_DOUBLINGS + 1):
+        g0, coeffs = decompose(rep, contours, X, descent=near_branch)
+        g2, cf2s = decompose(rep, contours, 2 * X, descent=False)
+        if _stable(rep, g0, coeffs, g2, cf2s):
+            break
+        X *= 2
+    else:
+        raise ScatteringError(f"the thimble decomposition on the {'exterior' if sign > 0 else 'interior'} side "
+                              f"keeps changing from x = {X0:.6g} to {X:.6g} (Stokes lines crossed at every "
+                              f"doubling of x); the asymptotic region is not reached for this model at this "
+                              f"frequency: use contourkit.direct.scatter for a full profile, or another omega")
     lab = sign * min(abs(X), 0.1 / kappa) if kappa else None
     return X, g0, coeffs, lab
+
+
+#: how often the geometry may move outwards (X -> 2X) past Stokes lines before scatter gives up
+_STOKES_DOUBLINGS = 6
+
+
+def _stable(rep, g0, coeffs, g2, cf2s):
+    """The decompositions at X and 2X agree thimble by thimble (critical points followed from X to 2X)."""
+    perm = track(rep, g0.xg, g2.xg, crit0=g0.crit, crit1=g2.crit)
+    if perm is None:
+        return False
+    inv = np.empty(len(perm), dtype=int)
+    inv[perm] = np.arange(len(perm))
+    sheet = _sheet_factors(rep, g0.crit, g2.crit[perm])
+    for c, cf2 in enumerate(cf2s):
+        a = sorted((i, abs(n)) for n, i, _ in coeffs[c])
+        b = sorted((int(inv[i]), abs(n * sheet[inv[i]])) for n, i, _ in cf2)
+        if [i for i, _ in a] != [i for i, _ in b] or any(abs(p - q) > 1e-6 * max(1.0, p, q)
+                                                         for (_, p), (_, q) in zip(a, b)):
+            return False
+    return True
 
 
 def _side_constants(rep, contours, dd, side, dps):
@@ -156,7 +189,7 @@ def _side_constants(rep, contours, dd, side, dps):
     return modes, N
 
 
-def scatter(model, omega, *, dps=None):
+def scatter(model, omega, *, dps=None, validity_tol=1e-2):
     """Near-horizon S-matrix of a horizon model at one frequency.
 
     Parameters
@@ -171,10 +204,20 @@ def scatter(model, omega, *, dps=None):
         to ``10**-dps``; ``result.dps`` reports the precision used.  The
         geometry is always double precision (it is made of integers).  With
         dps given, thermal_ratio, occupation, alpha and beta are mpmath numbers.
+    validity_tol : float in (0, 1) or None
+        For a model with a full profile (uniform asymptotic regions), the
+        relative deviation from the full profile's thermal ratio and
+        occupation below which ``res.validity.reliable`` is True (default
+        1e-2); a :class:`~contourkit.errors.ValidityWarning` is issued when
+        it is not.  The estimate costs one full-profile solve
+        (:mod:`contourkit.profiles.validity`); None skips it.
 
     Returns
     -------
     ScatteringResult
+        ``hawking_channel`` is False above a cut-off of the full profile
+        (then thermal_ratio 0.0, effective_temperature None);
+        ``validity`` is None for models without a full profile.
 
     Examples
     --------
@@ -185,22 +228,57 @@ def scatter(model, omega, *, dps=None):
     >>> res.unitarity_residual < 1e-10
     True
     """
+    check_dps(dps)
+    check_validity_tol(validity_tol)
     from .oriented import canonical_and_map
     canon, to_user = canonical_and_map(model)
-    return to_user(_scatter(canon, omega, dps, None))
+    res = to_user(_scatter(canon, omega, dps, None))
+    return full_profile_checks(model, [res], validity_tol)[0]
+
+
+#: bounds of a requested number of digits (dps=)
+DPS_MIN, DPS_MAX = 5, 5000
+
+
+def check_dps(dps):
+    """A user's dps: None or an integer with DPS_MIN <= dps <= DPS_MAX (InputError otherwise)."""
+    if dps is None:
+        return None
+    if isinstance(dps, bool) or not isinstance(dps, (int, np.integer)):
+        raise InputError(f"dps must be an integer number of digits ({DPS_MIN} to {DPS_MAX}) or None, got {dps!r}")
+    if not DPS_MIN <= dps <= DPS_MAX:
+        raise InputError(f"dps = {dps} is outside {DPS_MIN} <= dps <= {DPS_MAX}; ask for between {DPS_MIN} and "
+                         f"{DPS_MAX} correct digits (double precision figures need about 16)")
+    return int(dps)
+
+
+def check_validity_tol(tol):
+    """validity_tol: None or a number in (0, 1)."""
+    if tol is None:
+        return None
+    if isinstance(tol, bool) or not isinstance(tol, (int, float, np.floating)) or not 0 < tol < 1:
+        raise InputError(f"validity_tol must be a number in (0, 1) (the relative deviation from the full "
+                         f"profile accepted as reliable, default 1e-2) or None to skip the estimate, got {tol!r}")
+    return float(tol)
+
+
+def full_profile_checks(model, results, validity_tol, stacklevel=7):
+    """Cut-off and validity against the full profile, from the profiles layer through the registry.
+
+    ``stacklevel`` 7 points the warnings at the user's ``model.scatter(...)`` or
+    ``model.spectrum(...)`` line (through two registry calls).
+    """
+    if "full_profile" not in extensions.provided():
+        return results
+    return extensions.call("full_profile", model, results, tolerance=validity_tol, stacklevel=stacklevel)
 
 
 def _prepare(model, omega, dps):
     """Checked frequency and target digits; warns above the full profile's cut-off."""
     w = _check_omega(omega)
-    wmax = model.omega_max if getattr(model, "flow_D", None) is not None else None
-    if wmax is not None and w >= wmax:
-        warnings.warn(f"omega = {w} is at or above the cut-off omega_max = {wmax:.6g} of the full profile: "
-                      f"dispersive branches coalesce there and the near-horizon result no longer describes "
-                      f"the flow; use contourkit.direct.scatter for the full profile", ContourkitWarning,
-                      stacklevel=4)
-    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1):
-        raise InputError(f"dps must be a positive integer, got {dps!r}")
+    if dps is not None and (isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1
+                            or dps > DPS_MAX):
+        raise InputError(f"dps must be an integer number of digits from 1 to {DPS_MAX}, got {dps!r}")
     return w, (int(dps) if dps is not None else 16)
 
 
@@ -224,7 +302,13 @@ def _scatter(model, omega, dps, keep):
         return _nondispersive(model, rep, w, kappa, max(target, 20), user_dps)
     contours = rep.basis()
     dd = DispersionDerivatives(model, w, eq)
-    sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
+    try:
+        sides = (_side_geometry(rep, contours, dd, +1, kappa), _side_geometry(rep, contours, dd, -1, kappa))
+    except (AccuracyError, ContourError) as exc:
+        # the geometry's own advice names positions x that scatter chooses itself
+        raise ScatteringError(f"the near-horizon geometry at omega = {w:g} could not be traced "
+                              f"({str(exc).split(';')[0]}); scatter chooses the positions itself, so try a "
+                              f"slightly different omega, or contourkit.direct.scatter for a full profile") from exc
     if keep is not None and keep.get("fast") is not None:
         # a spectrum at modest accuracy: labels once, then the caller's fast evaluation (spectra.py)
         mods = [_side_constants(rep, contours, dd, sd, target + 10)[0] for sd in sides]

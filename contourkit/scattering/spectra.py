@@ -32,7 +32,8 @@ import numpy as np
 
 from ..errors import AccuracyWarning, ContourkitError, InputError, ScatteringError
 from .results import RowTable
-from .smatrix import _finish, _prepare, _result, _scatter
+from .smatrix import (_finish, _prepare, _result, _scatter, check_dps, check_validity_tol,
+                      full_profile_checks)
 
 
 def _continued(model, family, state, omega, dps, geometry=None):
@@ -207,7 +208,8 @@ def result_row(res, error=None, *, omega=None):
     return row
 
 
-def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_error="raise"):
+def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_error="raise",
+             validity_tol=1e-2):
     """Scattering figures over frequencies, correct also for exponentially small |beta|^2.
 
     Each frequency gets the S-matrix of :func:`scatter`: the geometry is traced
@@ -238,6 +240,10 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_
         "record": a frequency whose S-matrix cannot be built gives a row with
         None values, ``success = False`` and the error in ``message``; the
         other frequencies are computed.
+    validity_tol : float in (0, 1) or None, tolerance of ``validity.reliable``
+        for models with a full profile (default 1e-2; None: no estimate).  The
+        estimate costs at most six full-profile solves per spectrum, spread
+        over the frequencies (:mod:`contourkit.profiles.validity`).
 
     Returns
     -------
@@ -259,6 +265,8 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_
         raise InputError("omegas is empty; give at least one frequency")
     if not (isinstance(rtol, (int, float)) and 0 < rtol < 1):
         raise InputError(f"rtol must be a number in (0, 1), got {rtol!r}")
+    check_dps(dps)
+    check_validity_tol(validity_tol)
     digits = int(dps) if dps is not None else max(1, int(math.ceil(-math.log10(rtol))))
     if isinstance(workers, bool) or not isinstance(workers, (int, np.integer)) or workers < 1:
         raise InputError(f"workers must be a positive integer, got {workers!r}")
@@ -281,5 +289,7 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_
     else:
         for i, r in zip(order, _sweep((model, [ws[i] for i in order], digits, follow, record))):
             done[i] = r
+    ok = [res for res, _ in done if res is not None]
+    full_profile_checks(model, ok, validity_tol)
     rows = [result_row(res, err, omega=w) for w, (res, err) in zip(ws, done)]
     return Spectrum(rows, [res for res, _ in done])

@@ -11,7 +11,11 @@ OMEGA = sp.Symbol("omega")
 KS = sp.Symbol("k")
 
 
-def exact(value):
+def _for(what):
+    return f" for {what}" if what else ""
+
+
+def exact(value, what=None):
     """Return `value` as an exact sympy number where that is meaningful.
 
     Python floats and sympy Floats are read as the decimal the user typed
@@ -24,18 +28,18 @@ def exact(value):
     1/20
     """
     if isinstance(value, bool):
-        raise InputError(f"expected a number, got the boolean {value!r}")
+        raise InputError(f"expected a number{_for(what)}, got the boolean {value!r}")
     if isinstance(value, (int, sp.Integer, sp.Rational)):
         return sp.Integer(value) if isinstance(value, int) else value
     if isinstance(value, float):
         if not math.isfinite(value):
-            raise InputError(f"expected a finite number, got {value!r}")
+            raise InputError(f"expected a finite number{_for(what)}, got {value!r}; give a finite value")
         return sp.Rational(repr(value))
     if isinstance(value, complex):
         return exact(value.real) + I * exact(value.imag)
     if isinstance(value, sp.Basic):
         if value.has(sp.nan, sp.zoo, sp.oo, -sp.oo):
-            raise InputError(f"expected a finite number, got {value}")
+            raise InputError(f"expected a finite number{_for(what)}, got {value}; give a finite value")
         return value.xreplace({f: sp.Rational(str(f)) for f in value.atoms(sp.Float)})
     try:
         import numpy as np

@@ -56,6 +56,12 @@ def ode_coefficients(expr, y, x):
     ModelError
         If expr is not linear and homogeneous in y, naming the offending term.
     """
+    if isinstance(expr, str) or not isinstance(expr, (sp.Basic, int, float, complex)):
+        raise InputError(f"the equation must be a sympy expression in {y}(x) and its derivatives, got "
+                         f"{type(expr).__name__} {str(expr)[:40]!r}; build it with sympy (y(x).diff(x, 2) - x*y(x)) "
+                         f"or write a model file and load it with contourkit.load_model (text parsed safely)")
+    if not isinstance(x, sp.Symbol):
+        raise InputError(f"x must be a sympy Symbol, got {type(x).__name__} {x!r}")
     yf, yx = _function_of(y, x)
     expr = sp.sympify(expr)
     if isinstance(expr, sp.Equality):
@@ -80,10 +86,19 @@ def ode_coefficients(expr, y, x):
         raise ModelError(f"{bad[0]} appears in the equation; contourkit needs the unknown as {yx} "
                          f"with the same argument {x} everywhere")
     lin = sp.expand(lin)
+    if lin.has(sp.nan, sp.zoo, sp.oo, -sp.oo) or expr.has(sp.nan, sp.zoo, sp.oo, -sp.oo):
+        shown = "" if expr is sp.nan else f" ({expr})"
+        raise ModelError(f"the equation{shown} contains a non-finite number (nan or infinity), which makes it "
+                         f"undefined; replace it by a finite value (an undefined parameter or a division by zero "
+                         f"gives nan)")
     coeffs = []
     for n, Yn in enumerate(Y):
         c = lin.coeff(Yn, 1)
         coeffs.append(c)
+    for c in coeffs:
+        if c.has(sp.nan, sp.zoo, sp.oo, -sp.oo):
+            raise ModelError(f"the coefficient {c} of the equation is not finite (nan or infinity); replace the "
+                             f"non-finite number in the equation by a finite value")
     rest = sp.expand(lin - sum(c * Yn for c, Yn in zip(coeffs, Y)))
     if rest != 0:
         terms = sp.Add.make_args(rest)

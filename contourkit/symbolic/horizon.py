@@ -73,7 +73,7 @@ def _normalise_parameters(parameters):
         s = sp.Symbol(s) if isinstance(s, str) else s
         if not isinstance(s, sp.Symbol):
             raise InputError(f"parameter names must be strings or sympy Symbols, got {s!r}")
-        out[s] = exact(v)
+        out[s] = exact(v, f"the parameter {s}")
     return out
 
 
@@ -116,6 +116,20 @@ def _profile_substitutions(profiles, x, params, strict=True):
         else:
             raise InputError(f"profile names must be strings, Symbols or Functions, got {name!r}")
     return subs
+
+
+def checked_kappa(kappa, xh):
+    """kappa if it is a finite nonzero number, else HorizonError (e.g. a profile with a kink at x_H)."""
+    try:
+        val = float(kappa)
+    except (TypeError, ValueError, OverflowError):
+        val = float("nan")
+    if not np.isfinite(val) or val == 0:
+        raise HorizonError(f"the surface gravity kappa at the horizon x = {xh:g} is {val!r} (not a finite nonzero "
+                           f"number): the profile has no finite nonzero slope there (a kink such as sqrt(x**2) "
+                           f"or abs(x), or a flat point); use a profile that is smooth with a nonzero slope at "
+                           f"the horizon")
+    return val
 
 
 class HorizonModel:
@@ -176,7 +190,7 @@ class HorizonModel:
             horizon = self._find_horizon()
         self.horizon = horizon
         self.orientation = self._orientation(horizon)
-        self.kappa = abs(self.orientation.slope)
+        self.kappa = checked_kappa(abs(self.orientation.slope), horizon)
         # exact decimals of any Float (a numerically located horizon), never a guessed rational
         self._lin = [(exact_expr(a), exact_expr(b)) for a, b in linearise(self.g, x, horizon)]
 
@@ -191,6 +205,13 @@ class HorizonModel:
         it is formally self-adjoint when D is real.  Normalise D so that
         positive-norm modes have ``dD/domega > 0``.
         """
+        if isinstance(D, str) or not isinstance(D, (sp.Basic, int, float)):
+            raise InputError(f"D must be a sympy expression in omega, k and x, got {type(D).__name__} "
+                             f"{str(D)[:40]!r}; build it with sympy, or write a model file and load it with "
+                             f"contourkit.load_model (its text is parsed safely, never evaluated)")
+        for name, sym in (("omega", omega), ("k", k), ("x", x)):
+            if not isinstance(sym, sp.Symbol):
+                raise InputError(f"{name} must be a sympy Symbol, got {type(sym).__name__} {sym!r}")
         params = _normalise_parameters(parameters)
         params = _align(params, [D, *(profiles or {}).values()])
         subs = _profile_substitutions(profiles, x, params)
@@ -468,7 +489,7 @@ class HorizonModel:
         if self._lin is None:
             raise HorizonError("a horizonless flow has no near-horizon equation; use contourkit.direct.scatter "
                                "for its S-matrix and model.turning_points(omega) for its dispersive turning points")
-        w = exact(omega)
+        w = exact(omega, "omega")
         key = w
         if key not in self._eq_cache:
             X = self.x

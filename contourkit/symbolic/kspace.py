@@ -299,8 +299,11 @@ class KSpaceRepresentation:
     def _checked_dps(self, dps):
         if dps is None:
             return None
-        if isinstance(dps, bool) or not isinstance(dps, (int, np.integer)) or dps < 1:
-            raise InputError(f"dps must be a positive integer number of decimal digits, got {dps!r}")
+        if isinstance(dps, bool) or not isinstance(dps, (int, np.integer)):
+            raise InputError(f"dps must be an integer number of decimal digits (5 to 5000) or None, got {dps!r}")
+        if not 5 <= dps <= 5000:
+            raise InputError(f"dps = {dps} is outside 5 <= dps <= 5000; ask for between 5 and 5000 digits "
+                             f"(dps=None evaluates in double precision)")
         return int(dps)
 
     def mp_data(self, dps):

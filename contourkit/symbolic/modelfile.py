@@ -29,10 +29,11 @@ try:
 except ModuleNotFoundError:  # pragma: no cover - Python < 3.11
     import tomli as tomllib
 
+import mpmath
 import sympy as sp
 
-from ._sym import exact
-from ..errors import ContourkitError, InputError, ModelFileError
+from ._sym import KS, OMEGA, exact
+from ..errors import ContourkitError, HorizonError, InputError, ModelFileError, ModelFileHorizonError
 from .horizon import HorizonModel
 from .equation import ModeEquation
 from .safeparse import CONSTANTS, FUNCTIONS, MAX_EXPONENT, parse_expression
@@ -232,15 +233,76 @@ def _horizon(src, data):
     return kw
 
 
-def _construct(src, build):
+#: a given [horizon] position must be a zero of the low-frequency coefficient within this (times 1 + |x|)
+POSITION_TOL = 1e-6
+
+
+def _fail_horizon(src, msg):
+    raise ModelFileHorizonError(f"{src.path}: {msg}")
+
+
+def _verify_horizon(src, model, kw):
+    """The horizon of a loaded model: a given position is a horizon, a window's horizon is of the supported kind.
+
+    With ``c0(x)`` the coefficient of ``k^d`` and ``a(x)`` that of ``omega^d`` in the
+    lowest-degree part of D (the low-frequency branch), the horizon is a zero
+    of c0; the subsonic exterior (two low-frequency roots k/omega of opposite
+    sign, ``c0/a < 0``) must lie at x > x_H, i.e. ``d(c0/a)/dx < 0`` there.
+    """
+    if not isinstance(model, HorizonModel):
+        return model
+    x = model.x
+    xh = float(model.horizon)
+    try:
+        d, c0, c1 = model._low_frequency_part()
+        poly = sp.Poly(model.dispersion, OMEGA, KS)
+        a = dict(poly.terms()).get((d, 0), sp.Integer(0))
+        g = sp.lambdify(x, c0, "mpmath")
+        dg = sp.lambdify(x, sp.diff(c0, x), "mpmath")
+        with mpmath.workdps(30):
+            val, slope = complex(g(mpmath.mpf(xh))), complex(dg(mpmath.mpf(xh)))
+    except (TypeError, ValueError, ZeroDivisionError, sp.PolynomialError):
+        return model
+    if "horizon" in kw:
+        dist = abs(val / slope) if slope != 0 else math.inf
+        if not (dist <= POSITION_TOL * (1 + abs(xh))):
+            hint = ""
+            try:
+                root = float(mpmath.findroot(lambda t: mpmath.re(g(t)), mpmath.mpf(xh)))
+                hint = f" (a horizon lies at x = {root if abs(root) > 1e-12 else 0.0:.12g})"
+            except (ValueError, ZeroDivisionError, TypeError):
+                pass
+            _fail_horizon(src, f"[horizon] position = {xh:g} is not a horizon of the profile: the coefficient of "
+                     f"k^{d} at omega = 0, {c0}, is {val.real:.6g} there, not 0{hint}; give the position where it vanishes, or "
+                     f"remove position and give window = [a, b] around the horizon")
+    if a != 0 and not a.has(KS):
+        ratio = sp.diff(c0 / a, x)
+        try:
+            r = complex(sp.N(ratio.subs(x, xh), 20))
+        except (TypeError, ValueError):
+            r = None
+        if r is not None and math.isfinite(r.real) and r.real >= 0:
+            where = "[horizon] position" if "horizon" in kw else \
+                f"the horizon found in [horizon] window = {list(kw.get('window', model.window))}"
+            _fail_horizon(src, f"{where} at x = {xh:g} has its subsonic (exterior) side at x < {xh:g}: contourkit's "
+                     f"convention needs the fluid moving towards -x with the exterior at x > x_H (as for "
+                     f"v = -1 + kappa x); choose a window around such a horizon, or reflect the profile "
+                     f"(x -> -x)")
+    return model
+
+
+def _construct(src, build, kw=None):
     """Run a model constructor; contourkit errors pass, anything else gets context."""
     try:
-        return build()
+        model = build()
+    except HorizonError as exc:
+        raise ModelFileHorizonError(f"{src.path}: {exc}") from None
     except ContourkitError:
         raise
     except Exception as exc:  # sympy or numpy failures deep inside the constructors
         src.fail(f"the model could not be built ({type(exc).__name__}: {exc}); check that the equation is "
                  f"polynomial in k (dispersion) or linear in y (ode) and that the profiles are smooth")
+    return _verify_horizon(src, model, kw or {})
 
 
 def load_model(path):
@@ -305,7 +367,7 @@ def load_model(path):
                                "inside functions, roots or symbolic powers)")
         return _construct(src, lambda: HorizonModel.from_dispersion(
             D, omega=_W, k=_K, x=_X, profiles={sp.Symbol(n): e for n, e in profiles.items()},
-            parameters=values, **kw))
+            parameters=values, **kw), kw)
     symbols = {"x": _X, "y": _Y(_X), "omega": _W, **psyms, **{n: sp.Function(n)(_X) for n in profiles}}
     expr = src.expression(equation, symbols, where, values, outside=(_Y(_X), _W) if profiles else (_Y(_X),),
                           why="the equation must be linear in y (and, with profiles, polynomial in omega): keep "
@@ -313,7 +375,7 @@ def load_model(path):
     if profiles:
         return _construct(src, lambda: HorizonModel.from_ode(
             expr, _Y, _X, profiles={sp.Function(n): e for n, e in profiles.items()},
-            parameters=values, frequency=_W, **kw))
+            parameters=values, frequency=_W, **kw), kw)
     if "horizon" in data:
         src.fail("[horizon] applies to horizon models only; an ode model without [profiles] is used as "
                  "given (coefficients linear in x); remove [horizon] or add [profiles]")

@@ -249,3 +249,16 @@ def test_bessel_high_precision(bessel_rep):
         ref = -1j * mpmath.pi * mpmath.besselj(0, 1000)
         rel = abs(v - ref) / abs(ref)
     assert rel < 1e-45
+
+
+@pytest.mark.slow
+def test_high_precision_on_coarse_chords():
+    """From 60 digits on the arms are integrated on coarse chords, each at the digits it needs
+    (quadrature._coarse_vertices).  Ai(-10) at 120 digits: the real-axis integral is 2 pi Ai(x)
+    (DLMF 9.5.4), reference mpmath.airyai at raised precision; the result reports success."""
+    import mpmath
+    rep = ck.ModeEquation.from_coefficients([0, 0, 1], [-1, 0, 0]).fourier()
+    v = rep.evaluate(ck.Contour.real_axis(), -10.0, dps=120)
+    assert v.success
+    with mpmath.workdps(140):
+        assert abs(mpmath.mpc(v) / (2 * mpmath.pi * mpmath.airyai(-10)) - 1) < mpmath.mpf(10) ** -115

@@ -28,9 +28,8 @@ quadratic ``2 s^2 - u s - 1 = 0``, hence
     omega_max = Lambda (s - u) sqrt(1 - s^2),   s = (u + sqrt(u^2 + 8))/4.
 
 The tanh profile v = -1 + D tanh(kappa x / D) has u = 1 + D in the interior
-and u = 1 - D in the exterior.  D = 1 (u = 2) is not an allowed tanh profile
-(v would vanish in the exterior), so u = 2 is checked on a uniform region
-directly.
+and u = 1 - D in the exterior.  u = 2 is checked on a uniform region directly
+(the tanh profiles with D = 1 and D = 1.5 are checked in tests/test_catalogue.py).
 """
 import math
 

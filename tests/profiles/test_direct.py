@@ -27,8 +27,9 @@ def sub():
 
 
 def _finite(res):
-    vals = [res.thermal_ratio, res.occupation, res.effective_temperature, res.unitarity_residual,
-            res.error_estimate, abs(res.alpha), abs(res.beta)]
+    # effective_temperature is None where there is no Hawking channel (above a cut-off)
+    vals = [res.thermal_ratio, res.occupation, res.unitarity_residual, res.error_estimate, abs(res.alpha),
+            abs(res.beta)] + ([res.effective_temperature] if res.hawking_channel else [])
     return all(math.isfinite(v) for v in vals) and np.all(np.isfinite(res.S))
 
 
@@ -82,7 +83,10 @@ def test_mode_counting_superluminal(sup):
     above = scatter(sup, 1.2 * wm)
     assert all(md.norm > 0 for md in above.in_modes)             # the negative-norm in-mode is absent
     assert sorted(md.name for md in above.in_modes) == ["ext-in+", "int-in+"]
-    assert above.thermal_ratio == 0.0 and above.effective_temperature == 0.0
+    # no Hawking channel above the cut-off: thermal ratio 0, no effective temperature (None)
+    assert above.thermal_ratio == 0.0 and above.effective_temperature is None
+    assert above.hawking_channel is False and below.hawking_channel is True
+    assert above.as_row()["temperature_ratio"] is None
     assert "cut-off" in above.message and above.unitarity_residual <= 1e-8
 
 
@@ -93,6 +97,7 @@ def test_mode_counting_subluminal(sub):
     above = scatter(sub, 1.2 * omega_max(sub))
     assert [md.side for md in above.out_modes] == ["interior", "interior"]   # no Hawking channel
     assert above.thermal_ratio == 0.0 and "cut-off" in above.message
+    assert above.hawking_channel is False and above.effective_temperature is None
     assert above.unitarity_residual <= 1e-8 and _finite(above)
 
 
