@@ -97,8 +97,13 @@ CASES = [
     ("not TOML", lambda tp: ck.load_model(_model_file(tp, "this is = = not toml")), None),
     ("position not a horizon", lambda tp: ck.load_model(_flow_file(tp, horizon="[horizon]\nposition = 10\n")),
      None),
+    # v = -1 + kappa x reaches +1 at x = 40: a horizon of a flow towards +x, which is now supported
+    # (model.orientation); its spectrum must be the thermal one, T_eff/T_H -> 1 for kappa << Lambda
+    # (Unruh 1995; Corley 1998), with pseudo-unitarity (common practice)
     ("window around a v = +1 point", lambda tp: ck.load_model(
-        _flow_file(tp, horizon="[horizon]\nwindow = [5, 50]\n")), None),
+        _flow_file(tp, horizon="[horizon]\nwindow = [5, 50]\n")).scatter(0.05),
+     lambda r: (r.success and abs(r.effective_temperature / r.hawking_temperature - 1) < 1e-2
+                and r.unitarity_residual < 1e-10 and r.convention.flow == "+x") or pytest.fail(str(r))),
     ("kink profile", lambda tp: ck.load_model(_flow_file(tp, v="-1 + kap*sqrt(x**2)",
                                                          horizon="[horizon]\nposition = 0\n")), None),
     ("code in an expression", lambda tp: ck.load_model(_flow_file(tp, v="__import__('os').getcwd()")), None),

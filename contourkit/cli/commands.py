@@ -369,9 +369,9 @@ def _modes_options(p):
                    help="unstable: right edge Re omega < W of the search box (default: the cavity cut-off)")
     p.add_argument("--im-max", type=positive_float, metavar="G",
                    help="unstable: top Im omega < G of the search box (default from the cavity cut-off)")
-    p.add_argument("--n-max", type=positive_int, default=2, metavar="N",
+    p.add_argument("--n-max", type=positive_int, metavar="N",
                    help="quasinormal: overtones n = 0..N (default 2)")
-    p.add_argument("--k-perp", type=finite_float, default=0.0, metavar="Q",
+    p.add_argument("--k-perp", type=finite_float, metavar="Q",
                    help="quasinormal: transverse wavenumber of the effective potential (default 0)")
     p.add_argument("--out", metavar="FILE.csv", help="write the modes as CSV")
     p.add_argument("--figure", metavar="FILE", help="draw the complex-omega plane (and the dominant unstable "
@@ -404,15 +404,22 @@ def run_modes(args):
             _writable(path, what)
     if args.figure is not None and pathlib.Path(args.figure).suffix.lower() not in (".png", ".pdf", ".svg"):
         raise UsageError(f"--figure {args.figure!r}: give a file name ending in .png, .pdf or .svg")
+    given = {"--n-max": args.n_max, "--k-perp": args.k_perp, "--omega-max": args.omega_max,
+             "--im-max": args.im_max}
+    foreign = [o for o in (("--n-max", "--k-perp") if args.kind == "unstable" else ("--omega-max", "--im-max"))
+               if given[o] is not None]
+    if foreign:
+        raise UsageError(f"{foreign[0]} does not apply to --kind {args.kind}; leave it out, or choose the other "
+                         f"--kind")
     if args.kind == "unstable":
         from ..profiles.unstable import unstable_modes
         modes = unstable_modes(model, omega_max=args.omega_max, im_max=args.im_max)
     else:
-        pot = model.effective_potential(k_perp=args.k_perp)
+        pot = model.effective_potential(k_perp=args.k_perp or 0.0)
         if not hasattr(pot, "quasinormal_modes"):
             raise InputError(f"the effective potential of {label} offers no quasinormal-mode search in this "
                              f"version; use ck.greybody.potential(V, x) with its V(x*)")
-        modes = pot.quasinormal_modes(n_max=args.n_max)
+        modes = pot.quasinormal_modes(n_max=args.n_max or 2)
     rows = _mode_rows(modes, args.kind)
     message = getattr(modes, "message", "")
     if not args.quiet:

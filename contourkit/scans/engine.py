@@ -46,6 +46,7 @@ import warnings
 import numpy as np
 
 from ..errors import ContourkitError, InputError
+from ..profiles.validity import has_full_profile
 from ..scattering.smatrix import check_validity_tol, full_profile_checks
 from ..scattering.spectra import Spectrum, follow_rows, result_row
 from ..symbolic.horizon import HorizonModel
@@ -106,11 +107,15 @@ def run_block(model, ws, method, options, record, on_row=None):
         warnings.simplefilter("always")
         mark = [0]
 
-        def done(i, res, err):
+        def fresh():
             new = caught[mark[0]:]
             mark[0] = len(caught)
             seen.extend((w.category, str(w.message)) for w in new)
-            rows[i] = make_row(model, ws[i], res, err, _notes(new))
+            return _notes(new)
+
+        def done(i, res, err, notes=None):
+            notes = fresh() if notes is None else notes
+            rows[i] = make_row(model, ws[i], res, err, notes)
             results[i] = res
             if on_row is not None:
                 on_row(i, rows[i], res)
@@ -118,17 +123,23 @@ def run_block(model, ws, method, options, record, on_row=None):
         try:
             if method == "contour" and isinstance(model, HorizonModel):
                 order = sorted(range(len(ws)), key=lambda i: ws[i])
-                held = []
-                try:
+                if not (options.get("validity_tol") is not None and has_full_profile(model)):
                     follow_rows(model, [ws[i] for i in order], options["digits"], follow=options["follow"],
-                                record=record, on_result=lambda j, res, err: held.append((order[j], res, err)))
-                finally:
-                    # cut-off and validity against the full profile, once per block (profiles layer,
-                    # through the registry), then the block's rows in the order they finished
-                    full_profile_checks(model, [res for _, res, _ in held if res is not None],
-                                        options.get("validity_tol"))
-                    for i, res, err in held:
-                        done(i, res, err)
+                                record=record, on_result=lambda j, res, err: done(order[j], res, err))
+                else:
+                    held = []
+                    try:
+                        follow_rows(model, [ws[i] for i in order], options["digits"], follow=options["follow"],
+                                    record=record,
+                                    on_result=lambda j, res, err: held.append((order[j], res, err, fresh())))
+                    finally:
+                        # cut-off and validity against the full profile, once per block (profiles
+                        # layer), then the block's rows in the order they finished
+                        full_profile_checks(model, [h[1] for h in held if h[1] is not None],
+                                            options.get("validity_tol"))
+                        fresh()          # the block's validity warnings: re-issued once by the caller
+                        for i, res, err, notes in held:
+                            done(i, res, err, notes)
             else:
                 if method == "direct":
                     from ..profiles import direct

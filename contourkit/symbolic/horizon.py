@@ -376,7 +376,9 @@ class HorizonModel:
                                f"flow is at rest there and the sonic point is not a horizon")
         slope = -sp.diff(c0, self.x) / c1
         val = complex(sp.N(slope.subs(self.x, xh), 30))
-        if abs(val.imag) > 1e-12 * max(1.0, abs(val.real)) or not np.isfinite(val.real):
+        if not (np.isfinite(val.real) and np.isfinite(val.imag)):
+            checked_kappa(float("nan"), xh)          # a kink (sqrt(x**2), abs(x)): kappa is not defined
+        if abs(val.imag) > 1e-12 * max(1.0, abs(val.real)):
             raise HorizonError(f"at x = {xh:.6g} the low-frequency group velocity has the complex slope "
                                f"{val.real:.6g}{val.imag:+.6g}j: the dispersion function is not real there")
         if abs(val.real) <= 1e-9:
