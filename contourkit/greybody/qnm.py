@@ -231,7 +231,12 @@ def _horizon_tortoise_map(pot):
     yh, kap = pot.horizon, pot.left.kappa
     beta_R = _decay_rate(pot, pot.right)
     beta_R = beta_R * pot.right.D0 if beta_R else None        # rate in x* (x* ~ y/D0 far out)
-    lam = 2.0 / min([2.0 * kap] + ([beta_R] if beta_R else []))
+    # at the horizon V - V_h ~ (y - y_h)^p ~ exp(2 kappa p x*): p from the Taylor coefficients
+    Vt, rho = pot.left.Vt, 0.5 * pot.left.R_conv
+    mags = [abs(Vt[m]) * rho ** m for m in range(1, min(len(Vt), 9))]
+    big = max(mags) if mags else 0.0
+    p = next((m + 1 for m, v in enumerate(mags) if v > 1e-10 * big), 1) if big > 0 else 1
+    lam = 2.0 / min([2.0 * kap * p] + ([beta_R] if beta_R else []))
     g = yh + (pot.core[1] - yh) * np.logspace(-4, 0, 400)
     V0 = pot.limits[1]
     y_ref = float(g[np.argmax(np.abs(pot.V_at(g) - V0))])
