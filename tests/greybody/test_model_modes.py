@@ -122,7 +122,7 @@ def test_tanh_flow_with_transverse_wavenumber():
     assert np.all(np.diff(V) >= -1e-15) and V.min() >= -1e-15
     with pytest.raises(InputError, match="two thresholds"):
         pot.quasinormal_modes()
-    # V >= both... V >= its lower limit everywhere: no bound state (common practice)
+    # V is nowhere below its lower limit: no bound state (common practice)
     states = pot.bound_states()
     assert len(states) == 0 and states.count == 0
 
