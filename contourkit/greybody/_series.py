@@ -133,9 +133,22 @@ def taylor_coefficients(expr, y, y0, n, *, dps=30, radius=None, func=None):
     if func is None or radius is None:
         raise InputError("a Taylor series of a non-rational function needs a radius")
     with mpmath.workdps(dps + 10):
+        # y0 may be a sympy number (an exact horizon position): the circle's points must be
+        # mpmath numbers, or the mpmath-lambdified func mixes sympy and mpmath objects
+        y0 = to_mp(y0, dps + 10) if isinstance(y0, sp.Basic) else mpmath.mpmathify(y0)
+        radius = mpmath.mpf(to_mp(radius, dps + 10).real) if isinstance(radius, sp.Basic) else mpmath.mpf(radius)
         N = max(2 * n + 16, 64)
         pts = [y0 + radius * mpmath.expjpi(2 * mpmath.mpf(j) / N) for j in range(N)]
-        vals = [mpmath.mpc(func(p)) for p in pts]
+        try:
+            vals = [mpmath.mpc(func(p)) for p in pts]
+        except (TypeError, ValueError, AttributeError, ZeroDivisionError) as exc:
+            raise InputError(f"the expression cannot be evaluated numerically on the circle |y - {mpmath.nstr(y0, 8)}| "
+                             f"= {mpmath.nstr(radius, 6)} ({type(exc).__name__}: {exc}); give V and dxstar_dx as "
+                             f"sympy expressions of the coordinate alone, analytic near the horizon") from None
+        if not all(mpmath.isfinite(v) for v in vals):
+            raise InputError(f"the expression is not finite on the circle |y - {mpmath.nstr(y0, 8)}| = "
+                             f"{mpmath.nstr(radius, 6)} around the horizon (a singular point within it); "
+                             f"give dxstar_dx and V analytic in a disc around the horizon")
         out = []
         for m in range(n):
             s = mpmath.fsum(vals[j] * mpmath.expjpi(-2 * mpmath.mpf(j * m) / N) for j in range(N))

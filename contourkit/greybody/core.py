@@ -293,12 +293,12 @@ class TortoisePotential:
         VR, self._VR_exact = end_limit(self.V, y, sp.oo, "V at x -> +infinity")
         if self.horizon is None:
             VL, self._VL_exact = end_limit(self.V, y, -sp.oo, "V at x -> -infinity")
-            D0L, _ = end_limit(self._D, y, -sp.oo, "dx/dx* at x -> -infinity")
+            D0L, self._D0L_exact = end_limit(self._D, y, -sp.oo, "dx/dx* at x -> -infinity")
             if not D0L > 0:
                 raise InputError("dxstar_dx must tend to a positive constant at x -> -infinity.")
         else:
             VL, self._VL_exact = end_limit(self.V, y, self._yh_sym, "V at the horizon")
-        D0R, _ = end_limit(self._D, y, sp.oo, "dx/dx* at x -> +infinity")
+        D0R, self._D0R_exact = end_limit(self._D, y, sp.oo, "dx/dx* at x -> +infinity")
         if not D0R > 0:
             raise InputError("dxstar_dx must tend to a positive constant at x -> +infinity "
                              "(for a metric: f must tend to a positive constant).")
@@ -360,7 +360,11 @@ class TortoisePotential:
         with mpmath.workdps(30):
             try:
                 pts = [self.scale_guess * 2 ** j for j in range(4, 12)]
-                g = [abs(mpmath.mpc(f(side * mpmath.mpf(p)))) * mpmath.mpf(p) ** 8 for p in pts]
+                a = [abs(mpmath.mpc(f(side * mpmath.mpf(p)))) for p in pts]
+                # values at the level of the 30-digit rounding (e.g. a polynomial in tanh x that
+                # vanishes at tanh x = 1, evaluated where tanh x = 1 - 1e-300) are zero, not a tail
+                floor = mpmath.mpf(10) ** -24 * max(1, getattr(self, "amplitude", 1))
+                g = [(v if v > floor else mpmath.mpf(0)) * mpmath.mpf(p) ** 8 for v, p in zip(a, pts)]
                 ok = all(mpmath.isfinite(v) for v in g) and g[-1] < 1e-20 * max(max(g), 1e-300) \
                     and g[-1] <= g[-2] <= g[-3]
                 ok = ok or all(v == 0 for v in g)
@@ -383,7 +387,10 @@ class TortoisePotential:
         if self._D.is_rational_function(y):
             Dc = self._tail(self._D, side, _exact_number(y_c))
         else:
-            Dc = self._tail(self._D - _exact_number(D0), side, _exact_number(y_c))
+            # the exact limit (a float 5/6 would leave a constant 4e-17 'tail')
+            D0_exact = getattr(self, "_D0R_exact" if side > 0 else "_D0L_exact", None)
+            D0_exact = _exact_number(D0) if D0_exact is None else D0_exact
+            Dc = self._tail(self._D - D0_exact, side, _exact_number(y_c))
         fast = Uc is None or Dc is None
         if Uc is None:
             Uc = [mpmath.mpc(0)]
@@ -392,9 +399,15 @@ class TortoisePotential:
         Uc = [mpmath.mpc(0)] + list(Uc[1:])
         Vnp, Dnp = self._V_np, self._D_np
 
+        floor_V = 4e-16 * (abs(V_end) + getattr(self, "amplitude", 0.0))
+
         def U_abs(yv):
+            # differences at the level of double-precision rounding are no tail (they would stop
+            # the Born test at small k forever, e.g. D/D0 - 1 = 1e-16 where D0 = 5/6)
             with np.errstate(all="ignore"):
-                return abs(complex(Vnp(complex(yv))) - V_end) + abs(complex(Dnp(complex(yv))) / D0 - 1)
+                du = abs(complex(Vnp(complex(yv))) - V_end)
+                dd = abs(complex(Dnp(complex(yv))) / D0 - 1)
+            return (du if du > floor_V else 0.0) + (dd if dd > 4e-16 else 0.0)
         return AsymptoticEnd(side, y_c, V_end, Dc, Uc, fast, U_abs, self._Dfun, y_base, scale)
 
     def _horizon_end(self, V_h):

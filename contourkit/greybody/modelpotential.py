@@ -396,6 +396,18 @@ class EffectivePotential:
                                  error=pick(err), dps=_DPS, success=bool(success.all()) if scalar else success,
                                  message=msg)
 
+    def quasinormal_modes(self, *, n_max=2, region=None):
+        """Quasinormal modes (equal limits of V only); see
+        :func:`contourkit.greybody.modelmodes.model_quasinormal_modes`."""
+        from .modelmodes import model_quasinormal_modes
+        return model_quasinormal_modes(self, n_max=n_max, region=region)
+
+    def bound_states(self, *, rtol=1e-12):
+        """Bound states below both limits of V; see
+        :func:`contourkit.greybody.modelmodes.model_bound_states`."""
+        from .modelmodes import model_bound_states
+        return model_bound_states(self, rtol=rtol)
+
     def plot(self, *, ax=None, **kwargs):
         """V against x*: (Figure, Axes); see :func:`contourkit.plotting.potential_figure`.
 

@@ -218,6 +218,75 @@ def _spectral_tortoise(pot, N, V0):
     return M0, M1, M2
 
 
+def _horizon_tortoise_map(pot):
+    """lambda, and y(x*) at given x* for a horizon with an exponentially decaying far tail.
+
+    x* = 0 at the peak of |V - V_end|; y(x*) from dy/dx* = D(y), integrated in
+    u = ln(y - y_h) (du/dx* -> 2 kappa at the horizon: smooth there).
+    Returns (lam, ys_of) with ys_of(array of x*) -> array of y.
+    """
+    if hasattr(pot, "_qnm_hmap"):
+        return pot._qnm_hmap
+    from scipy.integrate import solve_ivp
+    yh, kap = pot.horizon, pot.left.kappa
+    beta_R = _decay_rate(pot, pot.right)
+    beta_R = beta_R * pot.right.D0 if beta_R else None        # rate in x* (x* ~ y/D0 far out)
+    # at the horizon V - V_h ~ (y - y_h)^p ~ exp(2 kappa p x*): p from the Taylor coefficients
+    Vt, rho = pot.left.Vt, 0.5 * pot.left.R_conv
+    mags = [abs(Vt[m]) * rho ** m for m in range(1, min(len(Vt), 9))]
+    big = max(mags) if mags else 0.0
+    p = next((m + 1 for m, v in enumerate(mags) if v > 1e-10 * big), 1) if big > 0 else 1
+    lam = 2.0 / min([2.0 * kap * p] + ([beta_R] if beta_R else []))
+    g = yh + (pot.core[1] - yh) * np.logspace(-4, 0, 400)
+    V0 = pot.limits[1]
+    y_ref = float(g[np.argmax(np.abs(pot.V_at(g) - V0))])
+    u_ref = math.log(y_ref - yh)
+
+    def rhs(t, u):
+        e = np.exp(u[0])
+        with np.errstate(all="ignore"):
+            d = complex(pot._D_np(complex(yh + e))).real
+        return [d / e]
+    cache = {}
+
+    def ys_of(xs):
+        xs = np.asarray(xs, dtype=float)
+        out = np.empty_like(xs)
+        for sgn in (-1, 1):
+            sel = (xs * sgn > 0)
+            if not np.any(sel):
+                continue
+            tt = np.sort(np.abs(xs[sel])) * sgn
+            sol = solve_ivp(rhs, (0.0, tt[-1]), [u_ref], t_eval=tt, method="DOP853", rtol=1e-12, atol=1e-12)
+            if not sol.success:
+                raise InputError(f"the tortoise coordinate could not be inverted ({sol.message}); "
+                                 "dx*/dx must be positive and finite beyond the horizon.")
+            vals = dict(zip(tt.tolist(), (yh + np.exp(sol.y[0])).tolist()))
+            out[sel] = [vals[v] for v in xs[sel].tolist()]
+        out[xs == 0] = y_ref
+        return out
+    pot._qnm_hmap = (lam, ys_of)
+    return pot._qnm_hmap
+
+
+def _spectral_horizon_fast(pot, N, V0):
+    """Tortoise compactification s = tanh(x*/lambda) for a horizon and an exponential far tail."""
+    lam, ys_of = _horizon_tortoise_map(pot)
+    s, Dm = _cheb(N)
+    inner = s.copy()
+    inner[0], inner[-1] = 1 - 1e-9, -(1 - 1e-9)
+    xs = lam * np.arctanh(inner)
+    ys = ys_of(xs)
+    with np.errstate(all="ignore"):
+        u = (pot.V_at(ys) - V0) / (1 - inner ** 2)
+    u[~np.isfinite(u)] = 0.0
+    u[0] = 0.0 if abs(u[1]) < 1e-8 * max(np.max(np.abs(u)), 1e-300) else u[0]
+    M0 = np.diag(1 - s ** 2) @ Dm @ Dm - np.diag(2 * s) @ Dm - lam ** 2 * np.diag(u)
+    M1 = 1j * lam * (np.diag(2 * s) @ Dm + np.eye(N + 1))
+    M2 = lam ** 2 * np.eye(N + 1)
+    return M0, M1, M2
+
+
 def _qep(M0, M1, M2):
     n = M0.shape[0]
     I = np.eye(n)
@@ -243,8 +312,12 @@ def spectral_candidates(pot, *, N=(32, 44), details=False):
     """
     _check(pot)
     V0 = pot.limits[1]
-    make = (lambda n: _spectral_horizon(pot, n)) if pot.left.kind == "horizon" \
-        else (lambda n: _spectral_tortoise(pot, n, V0))
+    if pot.left.kind == "horizon" and pot.right.fast and not pot.right.power_law:
+        make = (lambda n: _spectral_horizon_fast(pot, n, V0))      # horizon + exponential far tail
+    elif pot.left.kind == "horizon":
+        make = (lambda n: _spectral_horizon(pot, n))
+    else:
+        make = (lambda n: _spectral_tortoise(pot, n, V0))
     mats = [make(n) for n in N]
     ev = [_qep(*m) for m in mats]
     out = []
