@@ -46,7 +46,7 @@ from ..symbolic._sym import exact, exact_expr
 from ..symbolic.symmetric import linearise
 from .modes import DispersionDerivatives, catalogue
 from .results import ScatteringResult
-from .smatrix import _solve_equilibrated
+from .smatrix import in_mode_smatrix
 
 
 def _geometry(rep, contours, X):
@@ -126,28 +126,11 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
                               f"slowly; use contourkit.direct.scatter for this flow") from err
     n_c = len(contours)
     with mpmath.workdps(dps + 10):
-        A = mpmath.matrix(n_c, n_c)
-        for r, (md, N) in enumerate(ins):
-            for c in range(n_c):
-                A[r, c] = md.constant * N[md.index, c]
-        for r, (md, N) in enumerate(grow):
-            for c in range(n_c):
-                A[len(ins) + r, c] = N[md.index, c]
-        rhs = mpmath.matrix(n_c, len(ins))
-        for j in range(len(ins)):
-            rhs[j, j] = 1
         try:
-            Xs = _solve_equilibrated(A, rhs)
+            S, resid, _ = in_mode_smatrix(ins, outs, grow, n_c)
         except ZeroDivisionError:
             raise ScatteringError("the in-mode amplitudes at the turning point are degenerate; give another X=")
-        S = mpmath.matrix(len(outs), len(ins))
-        for o, (md, N) in enumerate(outs):
-            for j in range(len(ins)):
-                S[o, j] = mpmath.fsum(md.constant * N[md.index, c] * Xs[c, j] for c in range(n_c))
-        eta_in = [md.mode.norm for md, _ in ins]
-        eta_out = [md.mode.norm for md, _ in outs]
-        M = S.H * mpmath.diag(eta_out) * S - mpmath.diag(eta_in)
-        resid = float(max(abs(M[i, j]) for i in range(M.rows) for j in range(M.cols)))
+        resid = float(resid)
     in_modes, out_modes = [md.mode for md, _ in ins], [md.mode for md, _ in outs]
     for m in in_modes + out_modes:
         m.x = None if m.x is None else float(m.x) + xt

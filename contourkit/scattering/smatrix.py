@@ -395,35 +395,55 @@ def _assemble(model, constants, n_c, w, dps):
                               f"for {n_c} independent solutions at omega = {w}; is omega beyond a cut-off "
                               f"(model.omega_max) or at a coalescence?")
     with mpmath.workdps(dps + 10):
-        A = mpmath.matrix(n_c, n_c)
-        for r, (md, N) in enumerate(ins):
-            for c in range(n_c):
-                A[r, c] = md.constant * N[md.index, c]
-        for r, (md, N) in enumerate(grow):
-            for c in range(n_c):
-                A[len(ins) + r, c] = N[md.index, c]
-        nz = [abs(A[i, j]) for i in range(n_c) for j in range(n_c) if A[i, j] != 0]
-        lost = float(mpmath.log10(max(nz) / min(nz))) if nz else 0.0
-        rhs = mpmath.matrix(n_c, len(ins))
-        for j in range(len(ins)):
-            rhs[j, j] = 1
         try:
-            Xsol = _solve_equilibrated(A, rhs)
+            S, resid, lost = in_mode_smatrix(ins, outs, grow, n_c)
         except ZeroDivisionError:
             raise ScatteringError(f"the in-mode amplitudes of the contour basis are degenerate at omega = {w}")
-        S = mpmath.matrix(len(outs), len(ins))
-        for o, (md, N) in enumerate(outs):
-            for j in range(len(ins)):
-                S[o, j] = mpmath.fsum(md.constant * N[md.index, c] * Xsol[c, j] for c in range(n_c))
-        eta_in = [md.mode.norm for md, _ in ins]
-        eta_out = [md.mode.norm for md, _ in outs]
-        M = S.H * mpmath.diag(eta_out) * S - mpmath.diag(eta_in)
-        resid = max(abs(M[i, j]) for i in range(M.rows) for j in range(M.cols))
         in_modes = [md.mode for md, _ in ins]
         out_modes = [md.mode for md, _ in outs]
         Sobj = np.array([[S[i, j] for j in range(S.cols)] for i in range(S.rows)], dtype=object)
         fig = hawking_figures(Sobj, in_modes, out_modes, mpmath.mpf(w), mpmath.mpf(model.kappa))
     return in_modes, out_modes, [md.mode for md, _ in grow], S, resid, fig, lost
+
+
+def in_mode_smatrix(ins, outs, grow, n_c):
+    """S-matrix from the mode amplitudes of a contour basis (at the caller's mpmath precision).
+
+    ``ins``, ``outs``, ``grow``: (mode data, coefficient matrix N) pairs of the
+    in-, out- and growing modes, amplitude ``constant * N[index, c]`` in
+    contour c.  For each in-mode the combination with unit amplitude on it,
+    zero on the other in-modes and no growing mode gives one column of S.
+
+    Returns
+    -------
+    (S, resid, lost)
+        The mpmath matrix S, the pseudo-unitarity residual
+        ``max|S^dagger eta_out S - eta_in|`` and the decimal digits spanned by
+        the nonzero amplitudes (a measure of cancellation).  ZeroDivisionError
+        when the amplitudes are degenerate.
+    """
+    A = mpmath.matrix(n_c, n_c)
+    for r, (md, N) in enumerate(ins):
+        for c in range(n_c):
+            A[r, c] = md.constant * N[md.index, c]
+    for r, (md, N) in enumerate(grow):
+        for c in range(n_c):
+            A[len(ins) + r, c] = N[md.index, c]
+    nz = [abs(A[i, j]) for i in range(n_c) for j in range(n_c) if A[i, j] != 0]
+    lost = float(mpmath.log10(max(nz) / min(nz))) if nz else 0.0
+    rhs = mpmath.matrix(n_c, len(ins))
+    for j in range(len(ins)):
+        rhs[j, j] = 1
+    X = _solve_equilibrated(A, rhs)
+    S = mpmath.matrix(len(outs), len(ins))
+    for o, (md, N) in enumerate(outs):
+        for j in range(len(ins)):
+            S[o, j] = mpmath.fsum(md.constant * N[md.index, c] * X[c, j] for c in range(n_c))
+    eta_in = [md.mode.norm for md, _ in ins]
+    eta_out = [md.mode.norm for md, _ in outs]
+    M = S.H * mpmath.diag(eta_out) * S - mpmath.diag(eta_in)
+    resid = max(abs(M[i, j]) for i in range(M.rows) for j in range(M.cols))
+    return S, resid, lost
 
 
 def _solve_equilibrated(A, rhs):
