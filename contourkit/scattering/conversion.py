@@ -41,12 +41,12 @@ import mpmath
 import numpy as np
 
 from ..errors import AccuracyError, InputError, ScatteringError
-from ..geometry.decompose import coefficient, decompose
+from ..geometry.decompose import decompose
 from ..symbolic._sym import exact, exact_expr
 from ..symbolic.symmetric import linearise
-from .modes import DispersionDerivatives, catalogue
+from .modes import DispersionDerivatives
 from .results import ScatteringResult
-from .smatrix import in_mode_smatrix
+from .smatrix import _side_constants, in_mode_smatrix
 
 
 def _geometry(rep, contours, X):
@@ -97,13 +97,7 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
         rows = []
         for sign in (+1, -1):
             g0, coeffs = _geometry(rep, contours, sign * Xa)
-            mods = catalogue(rep, g0, dd, dps=dps, label_x=None)
-            with mpmath.workdps(dps + 10):
-                nu = rep.mp_data(dps)[2]
-                N = mpmath.matrix(len(mods), len(contours))
-                for c, (C, cf) in enumerate(zip(contours, coeffs)):
-                    for n, i, cl in cf:
-                        N[i, c] = coefficient(rep, C.terms, cl, nu, lambda z: mpmath.expjpi(2 * z))
+            mods, N = _side_constants(rep, contours, dd, (sign * Xa, g0, coeffs, None), dps)
             rows += [(md, N) for md in mods]
         ins = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "in"]
         outs = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
