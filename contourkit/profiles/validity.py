@@ -19,7 +19,7 @@ module attaches to each near-horizon result
   ``reason``; a :class:`~contourkit.errors.ValidityWarning` when not reliable.
 
 Method (docs/method.md, "How far a near-horizon result holds")
--------------------------------------------------------------
+--------------------------------------------------------------
 The estimate is a *cheap full-profile solve*: the direct position-space
 solver (:mod:`contourkit.profiles.direct`, ~0.05-0.5 s per frequency) at a
 relaxed tolerance ``rtol = 1e-8``, and the relative differences of the two
