@@ -262,3 +262,20 @@ def test_high_precision_on_coarse_chords():
     assert v.success
     with mpmath.workdps(140):
         assert abs(mpmath.mpc(v) / (2 * mpmath.pi * mpmath.airyai(-10)) - 1) < mpmath.mpf(10) ** -115
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("dps", [200])
+def test_high_precision_finishes(dps):
+    """Issue 12: high precision finishes and is right.  Ai(-10) from the real-axis integral,
+    2 pi Ai(x) (DLMF 9.5.4), against mpmath.airyai at raised precision; the reported error
+    estimate bounds the actual error.  (dps = 1000 takes minutes: it is timed in
+    tests/benchmarks/bench_engine.py --high-precision, see docs/performance.md.)"""
+    rep = ck.ModeEquation.from_coefficients([0, 0, 1], [-1, 0, 0]).fourier()
+    v = rep.evaluate(ck.Contour.real_axis(), -10.0, dps=dps)
+    assert v.success and v.dps == dps
+    with mpmath.workdps(dps + 20):
+        ref = 2 * mpmath.pi * mpmath.airyai(-10)
+        err = abs(mpmath.mpc(v) - ref)
+        assert err / abs(ref) < mpmath.mpf(10) ** -(dps - 5)
+        assert err <= 10 * v.error + mpmath.mpf(10) ** -(dps - 2) * abs(ref)
