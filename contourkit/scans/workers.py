@@ -2,17 +2,10 @@
 
 Local workers
 -------------
-:func:`local_pool` gives a :class:`concurrent.futures.ProcessPoolExecutor`
-whose workers
-
-* ask the kernel for ``SIGKILL`` when their parent dies (Linux
-  ``prctl(PR_SET_PDEATHSIG)``), and
-* run a watchdog thread that ends the worker (``os._exit``) within a quarter
-  of a second once its parent process has changed (the parent died and the
-  worker was handed to another process), on every POSIX system;
-* ignore ``SIGINT``: an interrupt at the terminal reaches the whole process
-  group, and the parent alone decides (it keeps the rows written and ends
-  the workers with :func:`stop_pool`).
+:func:`local_pool`, :func:`stop_pool` and :func:`worker_init` come from
+:mod:`contourkit.scattering.processes` (the in-memory spectrum uses the same
+pool): workers end with their parent (``prctl(PR_SET_PDEATHSIG)`` on Linux and
+a watchdog thread everywhere) and ignore ``SIGINT``.
 
 Dask
 ----
@@ -27,73 +20,18 @@ References
 .. [1] Linux man-pages, prctl(2), PR_SET_PDEATHSIG.
 """
 import logging
-import os
 import re
-import signal
 import socket
-import sys
 import threading
-import time
 from contextlib import contextmanager
 from urllib.parse import urlsplit
 
 from ..errors import InputError
+from ..scattering.processes import local_pool, stop_pool, worker_init  # noqa: F401  (re-exported)
 from .table import ScanError
 
-#: seconds between two checks of the parent process in a worker
-WATCH_INTERVAL = 0.25
 #: seconds allowed for the first connection to a Dask scheduler
 CONNECT_TIMEOUT = 3.0
-
-
-def _parent_death_signal():
-    if not sys.platform.startswith("linux"):
-        return
-    try:
-        import ctypes
-        libc = ctypes.CDLL(None, use_errno=True)
-        libc.prctl(1, int(signal.SIGKILL), 0, 0, 0)       # PR_SET_PDEATHSIG = 1
-    except (OSError, AttributeError):  # pragma: no cover - no prctl
-        pass
-
-
-def _watch(parent):
-    while True:
-        if os.getppid() != parent:
-            os._exit(1)
-        time.sleep(WATCH_INTERVAL)
-
-
-def worker_init():
-    """Initialiser of a worker process (see the module docstring)."""
-    signal.signal(signal.SIGINT, signal.SIG_IGN)
-    _parent_death_signal()
-    parent = os.getppid()
-    if parent == 1:                      # pragma: no cover - parent already gone
-        os._exit(1)
-    threading.Thread(target=_watch, args=(parent,), name="contourkit-parent-watch", daemon=True).start()
-
-
-def local_pool(workers):
-    """A process pool of ``workers`` processes that end with their parent."""
-    from concurrent.futures import ProcessPoolExecutor
-    return ProcessPoolExecutor(max_workers=int(workers), initializer=worker_init)
-
-
-def stop_pool(pool):
-    """End a pool now: cancel what has not started, terminate the running workers."""
-    procs = list(getattr(pool, "_processes", {}).values())
-    pool.shutdown(wait=False, cancel_futures=True)
-    for p in procs:
-        try:
-            p.terminate()
-        except (OSError, AttributeError):  # pragma: no cover - already gone
-            pass
-    for p in procs:
-        try:
-            p.join(2)
-        except (OSError, AssertionError, AttributeError):  # pragma: no cover
-            pass
 
 
 def check_address(address):

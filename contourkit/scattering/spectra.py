@@ -14,9 +14,9 @@ This module is the contour method's core: :func:`follow_rows` (the following
 loop, one block of frequencies), :func:`result_row` and the :class:`Spectrum`
 table.  ``model.spectrum`` is the general engine built on it
 (:func:`contourkit.scans.engine.spectrum`, one layer up: both methods, files
-and resumption, progress, workers that end with their parent, Dask); the
-:func:`spectrum` here is the in-memory contour-only form, whose ``workers``
-are plain process pools.
+and resumption, progress, Dask); the :func:`spectrum` here is the in-memory
+contour-only form.  Both run local workers that end with their parent
+(:mod:`.processes`).
 
 References
 ----------
@@ -31,6 +31,7 @@ import mpmath
 import numpy as np
 
 from ..errors import AccuracyWarning, ContourkitError, InputError, ScatteringError
+from .processes import local_pool
 from .results import RowTable
 from .smatrix import (_finish, _prepare, _result, _scatter, check_dps, check_validity_tol,
                       full_profile_checks)
@@ -280,8 +281,7 @@ def spectrum(model, omegas, *, rtol=1e-12, dps=None, workers=1, follow=True, on_
     n = min(int(workers), len(ws))
     chunks = [order[i * len(ws) // n:(i + 1) * len(ws) // n] for i in range(n)]
     if n > 1:
-        from concurrent.futures import ProcessPoolExecutor
-        with ProcessPoolExecutor(max_workers=n) as pool:
+        with local_pool(n) as pool:
             for idx, res in zip(chunks, pool.map(_sweep, [(model, [ws[i] for i in c], digits, follow, record)
                                                           for c in chunks])):
                 for i, r in zip(idx, res):
