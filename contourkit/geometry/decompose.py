@@ -92,7 +92,7 @@ def coefficient(rep, terms, crossing_list, nu, exp2pii):
     return total
 
 
-def decompose(rep, contour, x, *, u_stop=40.0, descent=True):
+def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
     """Thimble coefficients of a contour (or of a list of contours, sharing one geometry) at x.
 
     Returns
@@ -105,6 +105,10 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True):
     descent : bool or callable
         Trace the descent arms (needed for quadrature); a callable decides per
         critical point.  Intersection numbers need only the ascent arms.
+    exact : bool
+        The caller recomputes every coefficient in mpmath from its crossings
+        (:func:`coefficient`): sheet factors beyond the double range are then
+        kept (their double value may be 0 or inf) instead of refused.
     """
     many = isinstance(contour, (list, tuple))
     contours = list(contour) if many else [contour]
@@ -139,17 +143,32 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True):
                 cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
             n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
             size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
-            if cl and not (math.isfinite(abs(n)) and math.isfinite(size)):
-                # the test below would drop the thimble silently
-                big = max(abs(v.imag) for v in nu)
-                raise ContourError(f"the coefficient of the thimble at k = {s:.6g} (x = {x}) overflows double "
-                                   f"precision: sheet factors exp(2 pi i m nu) with |Im nu| up to {big:.4g} "
-                                   f"exceed 1e308 (|Im nu| > 112) and the geometry is double precision, so "
-                                   f"the decomposition cannot be represented; for a horizon model use "
-                                   f"contourkit.direct.scatter")
-            if cl and abs(n) > 1e-12 * size:
+            if cl and not (math.isfinite(abs(n)) and math.isfinite(size) and size > 0):
+                # sheet factors exp(2 pi i m nu) beyond double range: decide in mpmath
+                n, keep = _wide_coefficient(rep, cont.terms, cl, nu)
+                if keep and not exact:
+                    big = max(abs(v.imag) for v in nu)
+                    raise ContourError(f"the coefficient of the thimble at k = {s:.6g} (x = {x}) overflows double "
+                                       f"precision: sheet factors exp(2 pi i m nu) with |Im nu| up to {big:.4g} "
+                                       f"leave the range 1e-308..1e308 (|Im nu| > 112), and the quadrature works "
+                                       f"in double precision here; for a horizon model use "
+                                       f"contourkit.direct.scatter")
+                if keep:
+                    out[c].append((n, i, cl))
+            elif cl and abs(n) > 1e-12 * size:
                 out[c].append((n, i, cl))
     return Geometry(x, xg, crit, thims, u_stop), (out if many else out[0])
+
+
+def _wide_coefficient(rep, terms, cl, nu):
+    """(coefficient as mpmath number, keep?) where double precision under- or overflows."""
+    import mpmath
+    with mpmath.workdps(30):
+        nmp = [mpmath.mpc(complex(v)) for v in nu]
+        e2 = lambda z: mpmath.expjpi(2 * z)  # noqa: E731
+        n = coefficient(rep, terms, cl, nmp, e2)
+        size = mpmath.fsum(abs(coefficient(rep, terms, [q], nmp, e2)) for q in cl)
+        return n, bool(size > 0 and abs(n) > mpmath.mpf("1e-12") * size)
 
 
 def _representatives(rep, contour, xg, crit, level):

@@ -134,8 +134,9 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
             dist, j = P.nearest_singular(k)
             # an arm can only end where the integrand vanishes (descent) or blows up (ascent)
             can = bool(P.ess[j]) or (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
-            if can and dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j])) and len(ks) > 2 \
-                    and dist < abs(ks[-2] - P.kj[j]):
+            if can and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]) and \
+                    (dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j]))
+                     or (ascent and _captured(P, j, dist, other[j]))):
                 end, sink = ("source" if ascent else "sink"), j
                 break
         if u_cap is not None and u > u_cap:
@@ -164,6 +165,46 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
         end = "stalled"
     return Arm(np.array(ks, dtype=complex), np.array(lg, dtype=complex).reshape(len(ks), -1), end, sink,
                np.array(us))
+
+
+def _captured(P, j, dist, other_j):
+    """True if an ascent arm at distance ``dist`` from k_j can only go on into k_j.
+
+    Near k_j, ``Phi = nu_j w + g(k)`` with ``w = log(k - k_j)`` and g analytic
+    in the disc of radius ``other_j``; let ``r = dist`` and ``M`` bound
+    ``|g'|`` on the disc of radius 2r (the maximum of an analytic function is
+    on the circle; sampled at 32 points, with 25% of margin).  Two cases end
+    the arm, both for ``Re nu_j < 0``:
+
+    * radial: ``2 M r < |Re nu_j|``; the ascent flow ``dk/dt ~ conj(Phi')``
+      then moves inwards at every point of the disc;
+    * spiral (``|Im nu| >> |Re nu|``, as at slowly varying turning points):
+      on the arm ``Im(nu_j) log|k - k_j| = c - Re(nu_j) arg(k - k_j) - Im g``.
+      With ``2 M r < |Im nu_j|`` the angle moves monotonically, so the first
+      term on the right falls without bound, and ``Im g`` changes by at most
+      ``4 M r`` on the disc; with ``4 M r <= log(2) |Im nu_j|`` the arm never
+      leaves the disc of radius 2r and winds into k_j.  Such arms wind many
+      times before they come within ``1e-3 other_j``.
+
+    Both bounds give ``|g'| |k - k_j| < |nu_j|`` on the disc, so it holds no
+    critical point.  The disc of radius 2r (below ``0.25 min(other_j, 0.45)``)
+    holds no vertex of the representative contours, which stay at
+    ``0.3 min(other_j, 0.45)`` or more from every singular point (loop circles,
+    indentations and the bends of legs in contours.py), so the rest of the
+    arm crosses none of them.
+    """
+    nu = P.nu[j]
+    if P.ess[j] or nu.real >= 0 or 2 * dist >= 0.25 * min(other_j, 0.45):
+        return False
+    kj = P.kj[j]
+    M = 0.0
+    for i in range(32):
+        z = 2 * dist * cmath.exp(2j * math.pi * i / 32)
+        M = max(M, abs(P.d1(kj + z) - nu / z))
+    M *= 1.25
+    if 2 * M * dist < -nu.real:
+        return True
+    return 4 * M * dist <= math.log(2.0) * abs(nu.imag)
 
 
 def _other_scale(rep, j):
@@ -221,7 +262,9 @@ def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=Tru
     t = Thimble(sigma, d, minus, plus)
     if u_up is not None:
         for name, dd in (("up_plus", 1j * d), ("up_minus", -1j * d)):
-            arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond)
+            # ascent arms may wind many times into a branch point before they are captured (_captured)
+            arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond,
+                            max_steps=20000)
             if arm.end == "stalled":
                 raise AccuracyError(f"a steepest-ascent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
                                     f"near k = {arm.k[-1]:.6g}; move x slightly")
