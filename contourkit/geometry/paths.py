@@ -262,9 +262,11 @@ def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=Tru
     t = Thimble(sigma, d, minus, plus)
     if u_up is not None:
         for name, dd in (("up_plus", 1j * d), ("up_minus", -1j * d)):
-            # ascent arms may wind many times into a branch point before they are captured (_captured)
+            # ascent arms may wind into a branch point many times before they are captured (_captured):
+            # about |Im nu| / (2 pi |Re nu|) turns per e-fold of the radius, some 30 steps a turn
+            wind = max([abs(complex(v).imag) for v in rep._nu] + [0.0])
             arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond,
-                            max_steps=20000)
+                            max_steps=int(min(300000, 20000 + 100 * wind)))
             if arm.end == "stalled":
                 raise AccuracyError(f"a steepest-ascent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
                                     f"near k = {arm.k[-1]:.6g}; move x slightly")

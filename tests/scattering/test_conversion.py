@@ -27,24 +27,24 @@ def _key(m):
     return (m.side, m.direction, m.norm, round(m.k.real, 1))
 
 
-def _compare(L):
-    m = _model(L)
-    om = 0.27
+def _compare(L, m=None, om=0.27):
+    m = _model(L) if m is None else m
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", CoalescenceWarning)
         rc = m.scatter(om)
     rd = ck.direct.scatter(m, om)
+    kt = rc.extra["k_t"]                       # the blocked wavenumber: partners lie on either side
     assert rc.method == "contour (turning point)"
     assert rc.unitarity_residual <= 1e-8 and rd.unitarity_residual <= 1e-8      # pseudo-unitarity
     # the same mode content, matched by side, direction, norm and wavenumber sign
     ic = {(mm.side, mm.direction, mm.norm, np.sign(mm.k.real)): i for i, mm in enumerate(rc.in_modes)}
-    oc = {(mm.side, mm.direction, mm.norm, np.sign(mm.k.real), abs(mm.k.real) > 0.6): i
+    oc = {(mm.side, mm.direction, mm.norm, np.sign(mm.k.real), abs(mm.k.real) > kt): i
           for i, mm in enumerate(rc.out_modes)}
     assert len(ic) == len(rd.in_modes) == 3 and len(oc) == len(rd.out_modes) == 3
     for j, mi in enumerate(rd.in_modes):
         jc = ic[(mi.side, mi.direction, mi.norm, np.sign(mi.k.real))]
         for o, mo in enumerate(rd.out_modes):
-            oo = oc[(mo.side, mo.direction, mo.norm, np.sign(mo.k.real), abs(mo.k.real) > 0.6)]
+            oo = oc[(mo.side, mo.direction, mo.norm, np.sign(mo.k.real), abs(mo.k.real) > kt)]
             a, b = abs(rc.S[oo, jc]), abs(rd.S[o, j])
             if b > 0.5:
                 assert abs(a - b) < 0.05 * b                       # reflection and passing modes: 5%
@@ -54,7 +54,7 @@ def _compare(L):
                 assert a < 1e-3 and b < 1e-3
     # the blocked mode is totally reflected into its positive-norm partner (common practice)
     jb = next(i for i, mm in enumerate(rc.in_modes) if mm.side == "interior")
-    refl = next(i for i, mm in enumerate(rc.out_modes) if mm.norm > 0 and mm.k.real > 0.6)
+    refl = next(i for i, mm in enumerate(rc.out_modes) if mm.norm > 0 and mm.k.real > kt)
     anom = next(i for i, mm in enumerate(rc.out_modes) if mm.norm < 0)
     assert abs(abs(rc.S[refl, jb]) - 1) < 1e-8
     assert abs(rc.S[anom, jb]) ** 2 < 1e-12
@@ -84,6 +84,17 @@ def test_turning_point_slowly_varying(L):
     anom_d = next(i for i, mm in enumerate(rd.out_modes) if mm.norm < 0)
     jd = next(i for i, mm in enumerate(rd.in_modes) if mm.side == "interior")
     assert abs(rd.S[anom_d, jd]) ** 2 < 1e-14
+
+
+@pytest.mark.slow
+def test_turning_point_another_flow():
+    # a flow of our own, not in the catalogue: weaker dispersion k^4/4, a current from -0.3 to -0.4 over
+    # L = 30 (Im nu about 1000 at k = omega/v(x_t)); omega = 0.55 is blocked at one turning point
+    v = -sp.Rational(3, 10) - sp.Rational(1, 20) * (1 + sp.tanh(x / 30))
+    m = ck.HorizonModel.from_dispersion((w - v * k) ** 2 - k ** 2 + k ** 4 / 4, omega=w, k=k, x=x,
+                                        horizon="none", window=(-1200, 1200))
+    assert len(m.turning_points(0.55)) == 1
+    _compare(None, m, 0.55)
 
 
 def test_turning_point_needs_one_turning_point():
