@@ -51,7 +51,8 @@ def _arm_nodes(rep, arm, sign):
         for n in out:
             out[n] = [np.concatenate([a, b]) for a, b in zip(out[n], (nodes, W, E))]
     lend = arm.logs[-1]
-    end = (arm.k[-1], complex(phase.phi(rep, 0.0, arm.k[-1], lend))) if arm.end != "sink" else None
+    # a sink's tail is integrated to the end; the single-vertex start of an end thimble is no end
+    end = (arm.k[-1], complex(phase.phi(rep, 0.0, arm.k[-1], lend))) if arm.end not in ("sink", "end") else None
     return out, end
 
 

@@ -145,6 +145,31 @@ def _singular_index(rep, point):
                        f"{[s.point for s in rep.singularities]}")
 
 
+def integer_exponent(nu):
+    """True for an exponent that is an integer (to 1e-12): f is single-valued around the point."""
+    nu = complex(nu)
+    return abs(nu - round(nu.real)) < 1e-12
+
+
+def half_line_start(rep, point):
+    """(index j or None, k_j, straight) for the start of a half-line.
+
+    ``j`` is None for an ordinary zero of B (``rep.ordinary_zeros``, exponent
+    0).  ``straight`` is True where the half-line is represented by itself (a
+    ray from k_j), not by the loop ``/ (exp(2 pi i nu) - 1)``: at an integer
+    exponent the loop vanishes.
+    """
+    for z in getattr(rep, "ordinary_zeros", ()):
+        try:
+            p = complex(point)
+        except (TypeError, ValueError):
+            break
+        if not isinstance(point, bool) and abs(complex(z) - p) <= 1e-9 * max(1.0, abs(p)):
+            return None, complex(z), True
+    j = _singular_index(rep, point)
+    return j, complex(rep._kj[j]), integer_exponent(rep._nu[j])
+
+
 def _valley(rep, x, valley, j=None):
     vs = rep.valleys_at(x)
     if valley is None:
@@ -278,6 +303,19 @@ def representative(rep, x, kind, params, crit, level):
         arc = _arc(0, R0, a, b)
         verts = _ray_out(rep, x, arc[0], a, level, R0)[::-1] + arc + _ray_out(rep, x, arc[-1], b, level, R0)
         start_logs = None
+    elif kind == "half" and half_line_start(rep, params["point"])[2]:
+        # a ray from k_j itself (integer exponent or ordinary zero of B): f vanishes at a zero of
+        # positive order, so the ray starts 1e-9 of the scale away; at an ordinary zero it starts at k_j
+        j, kj, _ = half_line_start(rep, params["point"])
+        th = _valley(rep, x, params["valley"], j).center
+        d = cmath.exp(1j * th)
+        delta = 0.0 if j is None else 1e-9 * max(1.0, abs(kj))
+        verts = _leg(rep, x, kj, -1 if j is None else j, delta, d, th, level, R0)
+        if j is None:
+            verts = [kj] + verts[1:]
+        start_logs = phase.cut_plane_logs(rep, verts[0])[0] if rep._kj.size else np.zeros(0, complex)
+        if j is not None:
+            start_logs[j] = math.log(abs(verts[0] - kj)) + 1j * _reduce(th, rep.cut_angle)
     elif kind in ("loop", "half"):
         j = _singular_index(rep, params["point"])
         kj = rep._kj[j]
@@ -335,9 +373,10 @@ def basis(rep, *, x=1.0):
     """Independent contours, as many as the ODE's order.
 
     Valley-to-valley contours between consecutive valleys (on the arc that
-    does not cross the cut direction: counter-clockwise unless that arc would)
-    and one loop around every branch point, pole and essential singularity,
-    from the default valley.  For deg Q <= 1 the valley depends on the sign of
+    does not cross the cut direction: counter-clockwise unless that arc would),
+    one loop around every branch point, pole and essential singularity, from
+    the default valley, and a half-line from every zero of B with an exponent
+    that is a non-negative integer (where the loop vanishes).  For deg Q <= 1 the valley depends on the sign of
     x: the basis is for the side of x given (default x > 0).
 
     Raises
@@ -349,10 +388,14 @@ def basis(rep, *, x=1.0):
     for s in rep.singularities:
         if s.kind in ("branch point", "pole", "essential"):
             out.append(Contour.loop(s.point))
+        elif s.kind == "zero":                 # integer exponent >= 1: the loop vanishes, the ray does not
+            out.append(Contour.half_line(s.point))
+    for z in getattr(rep, "ordinary_zeros", ()):
+        out.append(Contour.half_line(z))        # exponent 0: f is analytic there, B f vanishes
     if len(out) != rep.order:
-        raise ContourError(f"found {len(out)} independent contours for an equation of order {rep.order} "
-                           f"(integer exponents at the singular points make some loops vanish); build the "
-                           f"missing solutions from half-lines (Contour.half_line) at zeros of B")
+        raise ContourError(f"found {len(out)} independent contours for an equation of order {rep.order}; "
+                           f"build the missing solutions from Contour.between, Contour.loop and "
+                           f"Contour.half_line by hand")
     for c in out:
         c.owner = rep
     return out

@@ -24,7 +24,7 @@ import numpy as np
 from . import contours as C
 from . import phase
 from ..errors import ContourError
-from .paths import thimble
+from .paths import end_thimble, thimble
 from .saddles import critical_points
 
 EPS = 1e-7
@@ -75,10 +75,16 @@ def crossings(rep, cverts, clogs, arm, orient):
 
 
 def term_factor(rep, kind, params, nu, exp2pii):
-    """Extra factor of an elementary contour: 1/(exp(2 pi i nu_j) - 1) for a half-line."""
+    """Extra factor of an elementary contour: 1/(exp(2 pi i nu_j) - 1) for a half-line drawn as a loop.
+
+    A half-line from an integer exponent or an ordinary zero of B is drawn as
+    itself (a ray from k_j, contours.half_line_start) and has no factor.
+    """
     if kind != "half":
         return 1
-    j = C._singular_index(rep, params["point"])
+    j, _, straight = C.half_line_start(rep, params["point"])
+    if straight:
+        return 1
     return 1 / (exp2pii(nu[j]) - 1)
 
 
@@ -114,11 +120,15 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
     contours = list(contour) if many else [contour]
     xg = geometry_x(x)
     crit = critical_points(rep, xg)
-    if crit.size == 0:
+    # the ends of half-lines at ordinary zeros of B carry end thimbles of their own
+    zs = np.array([complex(z) for z in getattr(rep, "ordinary_zeros", ())], dtype=complex)
+    if crit.size == 0 and zs.size == 0:
         raise ContourError("the exponent has no critical point at this x; nothing to deform onto")
     logs0 = [phase.cut_plane_logs(rep, s)[0] if rep._kj.size else np.zeros(0, complex) for s in crit]
     phis = np.array([phase.phi(rep, xg, s, l).real for s, l in zip(crit, logs0)])
-    level = float(np.min(phis)) - 8.0
+    zphis = [phase.phi(rep, xg, z, phase.cut_plane_logs(rep, z)[0] if rep._kj.size else np.zeros(0, complex)).real
+             for z in zs]
+    level = float(np.min(np.concatenate([phis, np.array(zphis, dtype=float)]))) - 8.0
     reps_all = [_representatives(rep, c, xg, crit, level) for c in contours]
     cmax = -math.inf
     rmax = 0.0
@@ -127,20 +137,42 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
             vals = phase.phi(rep, xg, verts, logs).real
             cmax = max(cmax, float(np.max(vals)))
             rmax = max(rmax, float(np.max(np.abs(verts))))
+    # half-lines from ordinary zeros of B end at a finite point where f does not vanish: the
+    # steepest-descent path from that point (an end thimble, coefficient 1) closes them into a
+    # valley-to-valley path, whose saddle coefficients count the crossings of both with the duals
+    ends, end_arms = [], []
+    for c, reps in enumerate(reps_all):
+        for ti, (coef, verts, logs) in enumerate(reps):
+            kind, params = contours[c].terms[ti][1], contours[c].terms[ti][2]
+            if kind == "half" and C.half_line_start(rep, params["point"])[0] is None:
+                ends.append((c, ti, len(end_arms)))
+                end_arms.append(end_thimble(rep, xg, complex(verts[0]), crit, u_stop=u_stop))
+    for t in end_arms:
+        rmax = max(rmax, float(np.max(np.abs(t.plus.k))))
     thims = []
-    out = [[] for _ in contours]
-    exp2 = lambda z: np.exp(2j * math.pi * z)  # noqa: E731
-    nu = list(rep._nu)
     for i, s in enumerate(crit):
         u_up = max(cmax - phis[i] + 4.0, 4.0)
         want = descent(s) if callable(descent) else descent
-        t = thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax, descent=want)
-        thims.append(t)
+        thims.append(thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax, descent=want))
+    n_saddles = len(thims)
+    ends = [(c, ti, n_saddles + ie) for c, ti, ie in ends]
+    thims += end_arms
+    crit = np.concatenate([crit, np.array([t.sigma for t in end_arms], dtype=complex)])
+    out = [[] for _ in contours]
+    exp2 = lambda z: np.exp(2j * math.pi * z)  # noqa: E731
+    nu = list(rep._nu)
+    for i in range(n_saddles):
+        t, s = thims[i], crit[i]
         for c, (cont, reps) in enumerate(zip(contours, reps_all)):
             cl = []
             for ti, (coef, verts, logs) in enumerate(reps):
                 cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_plus, +1)]
                 cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
+            for ce, ti, ie in ends:
+                if ce == c:
+                    e = thims[ie].plus
+                    cl += [(ti, -sg, m) for sg, m in crossings(rep, e.k, e.logs, t.up_plus, +1)]
+                    cl += [(ti, -sg, m) for sg, m in crossings(rep, e.k, e.logs, t.up_minus, -1)]
             n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
             size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
             if cl and not (math.isfinite(abs(n)) and math.isfinite(size) and size > 0):
@@ -157,6 +189,9 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
                     out[c].append((n, i, cl))
             elif cl and abs(n) > 1e-12 * size:
                 out[c].append((n, i, cl))
+    for c, ti, ie in ends:
+        cl = [(ti, 1, ())]
+        out[c].append((complex(coefficient(rep, contours[c].terms, cl, nu, exp2)), ie, cl))
     return Geometry(x, xg, crit, thims, u_stop), (out if many else out[0])
 
 
@@ -176,14 +211,12 @@ def _representatives(rep, contour, xg, crit, level):
     for coef, kind, params in contour.terms:
         verts, slog = C.representative(rep, xg, kind, params, crit, level)
         logs = C.polyline_logs(rep, verts, slog)
-        if kind == "half":
-            j = C._singular_index(rep, params["point"])
+        j = C.half_line_start(rep, params["point"])[0] if kind == "half" else None
+        if j is not None:
             nu = rep._nu[j]
             if nu.real <= -1:
                 raise ContourError(f"a half-line from {rep.singularities[j].point} needs Re(exponent) > -1 "
                                    f"(here {nu:.6g}): the integral diverges at the branch point; use a loop")
-            if abs(np.exp(2j * math.pi * nu) - 1) < 1e-12:
-                raise ContourError(f"the exponent at {rep.singularities[j].point} is an integer: the loop vanishes "
-                                   f"and the half-line is not a closed cycle; use another contour")
+
         reps.append((coef, verts, logs))
     return reps

@@ -240,6 +240,26 @@ def descent_direction(rep, x, sigma):
     return cmath.exp(1j * (math.pi - cmath.phase(f2)) / 2)
 
 
+def end_thimble(rep, x, k0, crit, *, u_stop):
+    """The steepest-descent path from a point k0 that is not critical (the end of a half-line).
+
+    ``plus`` runs from k0 (``u = 0``) down into a valley (or a sink), in the
+    direction ``-conj(Phi'(k0))`` where Re Phi falls fastest; ``minus`` is the
+    single vertex k0.  Integrated like a thimble, it gives the integral from k0.
+    """
+    d1 = complex(phase.dphi(rep, x, k0, 1))
+    if d1 == 0:
+        raise AccuracyError(f"the half-line starts at k = {k0:.6g}, a critical point at x = {x:.6g}; move x slightly")
+    d = -d1.conjugate() / abs(d1)
+    logs0 = phase.cut_plane_logs(rep, k0)[0] if rep._kj.size else np.zeros(0, complex)
+    plus = trace_arm(rep, x, k0, d, u_stop=u_stop, crit=crit, logs0=logs0)
+    if plus.end == "stalled":
+        raise AccuracyError(f"the steepest-descent path from the end k = {k0:.6g} of a half-line stalled near "
+                            f"k = {plus.k[-1]:.6g} (x = {x:.6g}); move x slightly")
+    stub = Arm(np.array([k0], dtype=complex), logs0.reshape(1, -1), "end")
+    return Thimble(k0, d, stub, plus)
+
+
 def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=True):
     """Trace the thimble (and, if u_up is given, the dual) through sigma.
 

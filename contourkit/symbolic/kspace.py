@@ -142,7 +142,11 @@ class KSpaceRepresentation:
     exponent : sympy expression E(k), ``f = exp(E)`` (additive constant dropped)
     dexponent : sympy expression E'(k), rational
     polynomial_part : sympy Poly Q(k)
-    singularities : list of Singularity (all zeros of B)
+    singularities : list of Singularity (the zeros of B where f is not analytic or vanishes)
+    ordinary_zeros : list of points
+        Zeros of B where f is analytic and nonzero (exponent 0): not singular
+        points of f, but ends of half-line solutions (the boundary term
+        ``B f e^{ikx}`` vanishes there).
     branch_points : list of (point, exponent) pairs for non-integer exponents
     poles : list of (point, order)
     essential_singularities : list of points
@@ -201,6 +205,7 @@ class KSpaceRepresentation:
                     ess_list.pop()
                 sings.append(Singularity(kj, nu, ess_list))
         # a zero of B where E' is analytic (exponent 0, no essential part) is an ordinary point of f
+        self.ordinary_zeros = [s.point for s in sings if s.kind == "regular"]
         sings = [s for s in sings if s.kind != "regular"]
         self.singularities = sings
         # common factors of B and N = iA - B' give spurious x-independent roots of the critical
