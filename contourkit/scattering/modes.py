@@ -206,8 +206,8 @@ def _branch_constant(rep, geom, i, b, dd, dps):
     """
     t = geom.thimbles[i]
     x = geom.x
-    theta = math.pi / 2 if x > 0 else -math.pi / 2
     kb0 = rep._kj[b]
+    theta = math.pi / 2 if local_side(rep._nu[b], t.sigma - kb0) > 0 else -math.pi / 2
     r0 = abs(t.sigma - kb0)
 
     def local_arg(arm):
@@ -265,12 +265,24 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         return cands[0][1], cands[0][2]
 
 
+def local_side(nu, z):
+    """The sign that sets the valley of the Hankel loop at a branch point: Im a, ``a = -nu / z``.
+
+    Near k_b the integrand is ``z^nu e^{a z}`` with ``a = i x + g'(k_b)``
+    (g the rest of the exponent); the saddle sits at ``z = -nu / a``.  The loop
+    enters from ``arg z = +pi/2`` where Im a > 0, from ``-pi/2`` where Im a < 0.
+    Far out ``a ~ i x`` and this is the sign of x; close in, ``g'(k_b)`` (large
+    where the exponents are, as at slowly varying turning points) can set it.
+    """
+    return (-nu / z).imag
+
+
 def branch_constant_at(data, b, sig, ls, ds1, x, loop):
     """Flux constant of the Hankel loop at singular point b (module docstring), in mpmath.
 
     data : (Q, kj, nu, ess) at the working precision; sig, ls : a point near
     k_b and the logs there (the sheet); ds1 : |sigma1'(k_b)|; x : position
-    (its sign gives the valley direction theta = +-pi/2); loop : (m_in, n)
+    (unused: the valley direction theta = +-pi/2 follows from the saddle, :func:`local_side`); loop : (m_in, n)
     with entry argument alpha = theta + 2 pi m_in and winding Delta = 2 pi n.
     """
     Q, kjm, num, ess = data
@@ -284,7 +296,8 @@ def branch_constant_at(data, b, sig, ls, ds1, x, loop):
         for p, c in enumerate(ess[j], start=1):
             logh += c * (kb - kjm[j]) ** (-p)
     pref = 2 * mpmath.pi * ds1 * mpmath.exp(2 * mpmath.re(logh)) * abs(mpmath.gamma(nu + 1)) ** 2
-    alpha = (mpmath.pi / 2 if x > 0 else -mpmath.pi / 2) + 2 * mpmath.pi * loop[0]
+    side = local_side(complex(nu), complex(sig - kb))
+    alpha = (mpmath.pi / 2 if side > 0 else -mpmath.pi / 2) + 2 * mpmath.pi * loop[0]
     c2 = pref * mpmath.exp(-2 * mpmath.im(nu) * alpha) * abs(mpmath.expj(2 * mpmath.pi * nu * loop[1]) - 1) ** 2
     return mpmath.sqrt(c2)
 
