@@ -23,6 +23,7 @@ import numpy as np
 
 from . import contours as C
 from . import phase
+from . import spirals
 from ..errors import ContourError
 from .paths import end_thimble, thimble
 from .saddles import critical_points
@@ -89,16 +90,30 @@ def term_factor(rep, kind, params, nu, exp2pii):
 
 
 def coefficient(rep, terms, crossing_list, nu, exp2pii):
-    """Thimble coefficient sum_terms coef * factor * sum_crossings sign exp(2 pi i m.nu)."""
+    """Thimble coefficient sum_terms coef * factor * sum_crossings sign exp(2 pi i m.nu).
+
+    An entry may carry a fourth element for a loop drawn as a ray from k_j
+    (:mod:`contourkit.geometry.spirals`): ``("ray", j)`` gives the factor
+    ``exp(2 pi i nu_j) - 1``; ``("series", j, s)`` stands for the crossings
+    on every later turn and also divides by ``1 - exp(2 pi i s nu_j)``.
+    """
     total = 0
-    for ti, sign, m in crossing_list:
+    for entry in crossing_list:
+        ti, sign, m = entry[:3]
         coef, kind, params = terms[ti]
         w = exp2pii(sum(mi * nj for mi, nj in zip(m, nu))) if m else 1
-        total = total + coef * term_factor(rep, kind, params, nu, exp2pii) * sign * w
+        if len(entry) > 3:
+            j = entry[3][1]
+            f = exp2pii(nu[j]) - 1
+            if entry[3][0] == "series":
+                f = f / (1 - exp2pii(entry[3][2] * nu[j]))
+        else:
+            f = term_factor(rep, kind, params, nu, exp2pii)
+        total = total + coef * f * sign * w
     return total
 
 
-def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
+def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False, spiral_rays=False):
     """Thimble coefficients of a contour (or of a list of contours, sharing one geometry) at x.
 
     Returns
@@ -115,6 +130,10 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
         The caller recomputes every coefficient in mpmath from its crossings
         (:func:`coefficient`): sheet factors beyond the double range are then
         kept (their double value may be 0 or inf) instead of refused.
+    spiral_rays : bool
+        Draw loops around branch points with a large ``|Im nu|`` as rays and
+        sum the crossings of the spiralling ascent paths in closed form
+        (:mod:`contourkit.geometry.spirals`).  The coefficients are the same.
     """
     many = isinstance(contour, (list, tuple))
     contours = list(contour) if many else [contour]
@@ -129,11 +148,11 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
     zphis = [phase.phi(rep, xg, z, phase.cut_plane_logs(rep, z)[0] if rep._kj.size else np.zeros(0, complex)).real
              for z in zs]
     level = float(np.min(np.concatenate([phis, np.array(zphis, dtype=float)]))) - 8.0
-    reps_all = [_representatives(rep, c, xg, crit, level) for c in contours]
+    reps_all = [_representatives(rep, c, xg, crit, level, spiral_rays) for c in contours]
     cmax = -math.inf
     rmax = 0.0
     for reps in reps_all:
-        for _, verts, logs in reps:
+        for _, verts, logs, _r in reps:
             vals = phase.phi(rep, xg, verts, logs).real
             cmax = max(cmax, float(np.max(vals)))
             rmax = max(rmax, float(np.max(np.abs(verts))))
@@ -142,18 +161,24 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
     # valley-to-valley path, whose saddle coefficients count the crossings of both with the duals
     ends, end_arms = [], []
     for c, reps in enumerate(reps_all):
-        for ti, (coef, verts, logs) in enumerate(reps):
+        for ti, (coef, verts, logs, _r) in enumerate(reps):
             kind, params = contours[c].terms[ti][1], contours[c].terms[ti][2]
             if kind == "half" and C.half_line_start(rep, params["point"])[0] is None:
                 ends.append((c, ti, len(end_arms)))
                 end_arms.append(end_thimble(rep, xg, complex(verts[0]), crit, u_stop=u_stop))
     for t in end_arms:
         rmax = max(rmax, float(np.max(np.abs(t.plus.k))))
+    clear = None
+    if spiral_rays and rep._kj.size:
+        polys = [v for reps in reps_all for _, v, _, _ in reps] + [t.plus.k for t in end_arms]
+        rays = [r for reps in reps_all for _, _, _, r in reps] + [None] * len(end_arms)
+        clear = spirals.clearances(rep, polys, rays)
     thims = []
     for i, s in enumerate(crit):
         u_up = max(cmax - phis[i] + 4.0, 4.0)
         want = descent(s) if callable(descent) else descent
-        thims.append(thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax, descent=want))
+        thims.append(thimble(rep, xg, s, crit, u_stop=u_stop, u_up=u_up, r_beyond=1.05 * rmax, descent=want,
+                             clear=clear))
     n_saddles = len(thims)
     ends = [(c, ti, n_saddles + ie) for c, ti, ie in ends]
     thims += end_arms
@@ -165,9 +190,15 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False):
         t, s = thims[i], crit[i]
         for c, (cont, reps) in enumerate(zip(contours, reps_all)):
             cl = []
-            for ti, (coef, verts, logs) in enumerate(reps):
-                cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_plus, +1)]
-                cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, t.up_minus, -1)]
+            for ti, (coef, verts, logs, rj) in enumerate(reps):
+                for arm, orient in ((t.up_plus, +1), (t.up_minus, -1)):
+                    if rj is None:
+                        cl += [(ti, sg, m) for sg, m in crossings(rep, verts, logs, arm, orient)]
+                        continue
+                    cl += [(ti, sg, m, ("ray", rj)) for sg, m in crossings(rep, verts, logs, arm, orient)]
+                    if arm.end == "source" and arm.sink == rj:
+                        sg, m, step = spirals.tail(rep, xg, verts, logs, arm, orient, rj, clear)
+                        cl.append((ti, sg, m, ("series", rj, step)))
             for ce, ti, ie in ends:
                 if ce == c:
                     e = thims[ie].plus
@@ -206,9 +237,15 @@ def _wide_coefficient(rep, terms, cl, nu):
         return n, bool(size > 0 and abs(n) > mpmath.mpf("1e-12") * size)
 
 
-def _representatives(rep, contour, xg, crit, level):
+def _representatives(rep, contour, xg, crit, level, spiral_rays=False):
+    """(coefficient, vertices, logs at the vertices, j or None) per term; j for a loop drawn as a ray."""
     reps = []
     for coef, kind, params in contour.terms:
+        rj = spirals.is_spiral(rep, kind, params) if spiral_rays else None
+        if rj is not None:
+            verts, slog = spirals.ray(rep, xg, params, rj, crit, level)
+            reps.append((coef, verts, C.polyline_logs(rep, verts, slog), rj))
+            continue
         verts, slog = C.representative(rep, xg, kind, params, crit, level)
         logs = C.polyline_logs(rep, verts, slog)
         j = C.half_line_start(rep, params["point"])[0] if kind == "half" else None
@@ -218,5 +255,5 @@ def _representatives(rep, contour, xg, crit, level):
                 raise ContourError(f"a half-line from {rep.singularities[j].point} needs Re(exponent) > -1 "
                                    f"(here {nu:.6g}): the integral diverges at the branch point; use a loop")
 
-        reps.append((coef, verts, logs))
+        reps.append((coef, verts, logs, None))
     return reps

@@ -14,8 +14,10 @@ arm follows sharp turns near other saddles.  An arm ends
 * at a singular point where the integrand vanishes (``Re nu > -1`` and the
   arm converging into it); the rest of the arm is then the exact log-spiral
   tail integrated by Gauss-Laguerre quadrature (see quadrature.py);
-* for ascent arms, at a singular point where the integrand blows up, or
-  once it has climbed above every point of the contour being decomposed.
+* for ascent arms, at a singular point where the integrand blows up (also
+  after one turn of a slow spiral that provably contains the rest of the arm,
+  :func:`_captured_turn`), or once it has climbed above every point of the
+  contour being decomposed.
 
 The vertices carry the continued logarithms (phase.py), so every arm knows
 the sheet it is on.
@@ -44,10 +46,11 @@ class Arm:
     end: str                 # "valley", "sink", "source", "level", "stalled"
     sink: int = -1           # index of the singular point for "sink"/"source"
     u: np.ndarray = field(default=None, repr=False)
+    wound: bool = False      # "source" reached with a monotone winding angle (_captured, _captured_turn)
 
 
 def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
-              logs0=None, max_steps=4000, u_cap=None, r_beyond=0.0):
+              logs0=None, max_steps=4000, u_cap=None, r_beyond=0.0, clear=None):
     """Trace one descent (or ascent) arm from the critical point sigma.
 
     Parameters
@@ -61,6 +64,9 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
     r_beyond : float for ascent arms: stop at the level only beyond this radius
                      (Re Phi differs between sheets, so a level alone is no bound)
     crit : array     all critical points (for step control)
+    clear : array    for ascent arms: per singular point, the radius of the disc around it that no
+                     representative path enters (spirals.clearances); default 0.25 min(d_j, 0.45)
+                     with d_j the distance to the nearest other singular point
     """
     P = ScalarPhase(rep, x)
     J = P.J
@@ -93,6 +99,9 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
     logs = P.continue_logs(sigma, logs0, k)
     end = "stalled"
     sink = -1
+    wound = False
+    turn = None                            # (j, first index, arg) of the turn being watched (ascent arms)
+    lim_of = (lambda j: 0.27 * min(other[j], 0.45)) if clear is None else (lambda j: 0.8 * clear[j])
     u = float(sgn * (P.phi(k, logs) - phi0).real)
     if u <= 0:
         u = du0
@@ -136,9 +145,19 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
             can = bool(P.ess[j]) or (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
             if can and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]) and \
                     (dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j]))
-                     or (ascent and _captured(P, j, dist, other[j]))):
+                     or (ascent and _captured(P, j, dist, other[j], None if clear is None else clear[j]))):
                 end, sink = ("source" if ascent else "sink"), j
+                wound = bool(ascent and _captured(P, j, dist, other[j], None if clear is None else clear[j]))
                 break
+            if ascent and can and not P.ess[j]:
+                a_now = lg[-1][j].imag
+                if turn is None or turn[0] != j:
+                    turn = (j, len(ks) - 1, a_now)
+                elif abs(a_now - turn[2]) >= 2 * math.pi:
+                    if _captured_turn(P, j, ks[turn[1]:], lg[turn[1]:], min(lim_of(j), 0.5 * other[j])):
+                        end, sink, wound = "source", j, True
+                        break
+                    turn = (j, len(ks) - 1, a_now)
         if u_cap is not None and u > u_cap:
             end = "level"
             break
@@ -164,10 +183,43 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
     else:
         end = "stalled"
     return Arm(np.array(ks, dtype=complex), np.array(lg, dtype=complex).reshape(len(ks), -1), end, sink,
-               np.array(us))
+               np.array(us), wound)
 
 
-def _captured(P, j, dist, other_j):
+def _captured_turn(P, j, pts, logs, lim):
+    """True if an ascent arm that has just wound once around k_j (``pts``) can only wind on into k_j.
+
+    On the arm ``F = Im(nu) rho + Re(nu) theta + Im g(k_j + e^(rho + i theta)) = c``
+    (``rho = log|k - k_j|``, ``theta`` its continued argument, g as in
+    :func:`_captured`).  Let R be the largest radius of the turn and M bound
+    ``|g'|`` on the disc of radius R (sampled on its circle at 32 points, 25%
+    of margin).  With ``M R < |Im nu|`` and Re nu < 0: theta moves
+    monotonically on the arm, ``h(rho) = Im(nu) rho + Im g`` is monotone in
+    rho at fixed theta, and one more turn changes h by ``2 pi |Re nu|``
+    towards smaller rho.  So at every angle each turn lies strictly inside the
+    one before: the rest of the arm stays inside this turn, within radius R,
+    and winds into k_j; the disc holds no critical point.  ``lim`` bounds R:
+    no representative path other than rays from k_j comes that close.
+    """
+    nu = P.nu[j]
+    if nu.real >= 0 or len(pts) < 4:
+        return False
+    kj = P.kj[j]
+    args = np.array([complex(l[j]).imag for l in logs])
+    steps = np.diff(args)
+    if not (np.all(steps > 0) or np.all(steps < 0)):
+        return False
+    R = float(np.max(np.abs(np.asarray(pts, dtype=complex) - kj)))
+    if R >= lim:
+        return False
+    M = 0.0
+    for i in range(32):
+        z = R * cmath.exp(2j * math.pi * i / 32)
+        M = max(M, abs(P.d1(kj + z) - nu / z))
+    return 1.25 * M * R < abs(nu.imag)
+
+
+def _captured(P, j, dist, other_j, clear_j=None):
     """True if an ascent arm at distance ``dist`` from k_j can only go on into k_j.
 
     Near k_j, ``Phi = nu_j w + g(k)`` with ``w = log(k - k_j)`` and g analytic
@@ -191,10 +243,13 @@ def _captured(P, j, dist, other_j):
     holds no vertex of the representative contours, which stay at
     ``0.3 min(other_j, 0.45)`` or more from every singular point (loop circles,
     indentations and the bends of legs in contours.py), so the rest of the
-    arm crosses none of them.
+    arm crosses none of them.  With ``clear_j`` (spirals.clearances) the disc
+    may reach 0.8 of that distance, and rays from k_j inside it are crossed on
+    every later turn: spirals.tail sums those crossings.
     """
     nu = P.nu[j]
-    if P.ess[j] or nu.real >= 0 or 2 * dist >= 0.25 * min(other_j, 0.45):
+    lim = 0.25 * min(other_j, 0.45) if clear_j is None else 0.8 * clear_j
+    if P.ess[j] or nu.real >= 0 or 2 * dist >= lim:
         return False
     kj = P.kj[j]
     M = 0.0
@@ -260,7 +315,7 @@ def end_thimble(rep, x, k0, crit, *, u_stop):
     return Thimble(k0, d, stub, plus)
 
 
-def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=True):
+def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=True, clear=None):
     """Trace the thimble (and, if u_up is given, the dual) through sigma.
 
     With descent=False only the dual (ascent) arms are traced; the descent
@@ -282,11 +337,10 @@ def thimble(rep, x, sigma, crit, *, u_stop, u_up=None, r_beyond=0.0, descent=Tru
     t = Thimble(sigma, d, minus, plus)
     if u_up is not None:
         for name, dd in (("up_plus", 1j * d), ("up_minus", -1j * d)):
-            # ascent arms may wind into a branch point many times before they are captured (_captured):
-            # about |Im nu| / (2 pi |Re nu|) turns per e-fold of the radius, some 30 steps a turn
-            wind = max([abs(complex(v).imag) for v in rep._nu] + [0.0])
-            arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond,
-                            max_steps=int(min(300000, 20000 + 100 * wind)))
+            # an ascent arm that winds into a branch point ends after one turn that contains the rest
+            # (_captured_turn), but may wind a few times before it gets there
+            arm = trace_arm(rep, x, sigma, dd, ascent=True, u_stop=u_up, crit=crit, r_beyond=r_beyond, clear=clear,
+                            max_steps=20000)
             if arm.end == "stalled":
                 raise AccuracyError(f"a steepest-ascent path from the saddle {sigma:.6g} at x = {x:.6g} stalled "
                                     f"near k = {arm.k[-1]:.6g}; move x slightly")

@@ -50,8 +50,8 @@ from .smatrix import _side_constants, in_mode_smatrix
 
 
 def _geometry(rep, contours, X):
-    g0, coeffs = decompose(rep, contours, X, descent=False, exact=True)
-    g2, cf2 = decompose(rep, contours, 2 * X, descent=False, exact=True)
+    g0, coeffs = decompose(rep, contours, X, descent=False, exact=True, spiral_rays=True)
+    g2, cf2 = decompose(rep, contours, 2 * X, descent=False, exact=True, spiral_rays=True)
     for c in range(len(contours)):
         a = sorted(i for _, i, _ in coeffs[c])
         b = sorted(i for _, i, _ in cf2[c])

@@ -75,8 +75,9 @@ def test_turning_point_contour_against_direct():
 def test_turning_point_slowly_varying(L, om):
     # L = 20 and 80: the current changes over 2 and 8 blocked wavelengths.  The exponents at the
     # branch points grow like L (Im nu ~ 200 and 800 at k = omega/v(x_t)); the ascent paths that
-    # wind into them are ended once they cannot leave a small disc (geometry/paths._captured), and
-    # sheet factors exp(2 pi i m nu) beyond double range are kept in mpmath (decompose(exact=True)).
+    # wind into them end after a turn that contains the rest (geometry/paths._captured_turn), loops
+    # are drawn as rays with the later crossings summed (geometry/spirals.py), and sheet factors
+    # exp(2 pi i m nu) beyond double range are kept in mpmath (decompose(exact=True)).
     # omega = 0.29 lies near the top of the blocking band (one turning point for omega from about 0.25
     # to 0.295 at L = 20, measured): there the loop of
     # the long-wavelength mode at x_t - X enters from above, set by the rest of the exponent
