@@ -22,7 +22,10 @@ class CommandFailed(Exception):
 
 
 def _fmt(v, spec=".4e"):
-    return "-" if v is None else format(v, spec)
+    if v is None:                       # a missing value, right-aligned in the column's width
+        width = spec.split(".")[0]
+        return "-".rjust(int(width)) if width.isdigit() else "-"
+    return format(v, spec)
 
 
 def _writable(path, what):
@@ -217,6 +220,8 @@ def run_figures(args):
     formats = _formats(args.formats)
     parallel = _parallel(args)
     horizon = isinstance(model, HorizonModel)
+    if horizon:
+        require_horizon(model, label, "figures")
     if args.table is not None and not os.path.isfile(args.table):
         raise InputError(f"no table at {args.table}; give a CSV written by 'contourkit spectrum'")
     out_dir = pathlib.Path(args.out_dir)
@@ -279,11 +284,13 @@ def run_check(args):
     """``contourkit check``: near-horizon contour method against the direct solver."""
     from ..profiles.comparison import compare
     model, label = load(args)
-    require_horizon(model, label, "check")
+    require_horizon(model, label, "check", horizonless=True)
     if args.out is not None:
         _writable(args.out, "the table")
     ws = check_frequencies(model, list(args.omega))
     table = compare(model, ws, on_error="record")
+    if model.horizon is None:
+        return _finish_check(args, table, _print_turning(model, label, table))
     print(f"# {model.name or label}: kappa = {model.kappa:.6g}, T_H = {model.hawking_temperature:.6g}")
     # the column names of docs/vocabulary.md, per method
     print(f"{'omega':>12} {'omega_over':>11} {'temperature':>12} {'temperature':>12} {'rel_diff':>14} "
@@ -291,14 +298,38 @@ def run_check(args):
     print(f"{'':>12} {'_kappa':>11} {'_ratio':>12} {'_ratio':>12} {'_thermal_ratio':>14} {'_residual':>12} "
           f"{'_residual':>12}")
     print(f"{'':>12} {'':>11} {'contour':>12} {'direct':>12} {'':>14} {'contour':>12} {'direct':>12}")
-    notes = []
     for r in table.rows:
         print(f"{r['omega']:12.6g} {r['omega_over_kappa']:11.4f} {_fmt(r['temperature_ratio_contour'], '12.6f')} "
               f"{_fmt(r['temperature_ratio_direct'], '12.6f')} {_fmt(r['rel_diff_thermal_ratio'], '14.2e')} "
               f"{_fmt(r['unitarity_residual_contour'], '12.1e')} {_fmt(r['unitarity_residual_direct'], '12.1e')}")
-        for m in ("contour", "direct"):
-            if not r[f"success_{m}"]:
-                notes.append(f"omega = {r['omega']:.6g}, {m}: {r[f'message_{m}']}")
+    notes = _notes(table)
+    return _finish_check(args, table, notes)
+
+
+def _notes(table):
+    return [f"omega = {r['omega']:.6g}, {m}: {r[f'message_{m}']}" for r in table.rows for m in ("contour", "direct")
+            if not r[f"success_{m}"]]
+
+
+def _print_turning(model, label, table):
+    """The rows of a horizonless model: the blocked mode's reflection and anomalous conversion, both methods."""
+    print(f"# {model.name or label}: horizonless flow; contour method at the dispersive turning point "
+          f"(linearised there), direct solver on the full profile")
+    print(f"{'omega':>12} {'reflection':>12} {'reflection':>12} {'anomalous':>12} {'anomalous':>12} "
+          f"{'max_abs':>10} {'unitarity':>12} {'unitarity':>12}")
+    print(f"{'':>12} {'_contour':>12} {'_direct':>12} {'_contour':>12} {'_direct':>12} {'_diff_S':>10} "
+          f"{'_residual':>12} {'_residual':>12}")
+    for r in table.rows:
+        print(f"{r['omega']:12.6g} {_fmt(r['reflection_contour'], '12.8f')} {_fmt(r['reflection_direct'], '12.8f')} "
+              f"{_fmt(r['anomalous_contour'], '12.2e')} {_fmt(r['anomalous_direct'], '12.2e')} "
+              f"{_fmt(r['max_abs_diff_S'], '10.1e')} {_fmt(r['unitarity_residual_contour'], '12.1e')} "
+              f"{_fmt(r['unitarity_residual_direct'], '12.1e')}")
+    print("# anomalous: |S|^2 of the blocked mode into the opposite norm; the contour method's is the "
+          "linearised turning point's, far below the full profile's (docs/limitations.md)")
+    return _notes(table)
+
+
+def _finish_check(args, table, notes):
     for n in notes:
         print(f"# note: {n}")
     if args.out is not None:

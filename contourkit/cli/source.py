@@ -98,18 +98,26 @@ def load(args):
     return load_model(args.model), str(args.model)
 
 
-def require_horizon(model, label, command):
-    """Refuse an equation without a horizon for commands that need one."""
+def require_horizon(model, label, command, *, horizonless=False):
+    """Refuse an equation without a horizon for commands that need one (and a horizonless flow unless allowed)."""
     from ..symbolic.horizon import HorizonModel
     if not isinstance(model, HorizonModel):
         raise InputError(f"{label} is a single mode equation without a horizon (kind = \"ode\" without "
                          f"[profiles]); '{command}' needs a horizon model (a dispersion relation, or an ODE "
                          f"with [profiles]); 'contourkit derive' works on it")
+    if model.horizon is None and not horizonless:
+        raise InputError(f"{label} is a horizonless flow ([horizon] position = \"none\"): it has no Hawking "
+                         f"spectrum, so '{command}' does not apply; 'contourkit check {label} --omega W ...' "
+                         f"compares its S-matrix at the dispersive turning point with the direct solver, and "
+                         f"'contourkit derive {label} --omega W' lists its turning points")
     return model
 
 
 def check_frequencies(model, omegas):
-    """Every frequency below the model's cut-off (when it has one)."""
+    """Every frequency below the model's cut-off (when it has one; a horizonless flow has none)."""
+    if getattr(model, "horizon", 0) is None:
+        # above the far threshold of its faster side a horizonless flow blocks the wave: no cut-off
+        return omegas
     cut = model.omega_max
     if cut is not None:
         over = [w for w in omegas if w >= cut]

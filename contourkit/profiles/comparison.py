@@ -39,6 +39,13 @@ COLUMNS = (("omega", "omega_over_kappa", "hawking_temperature")
            + tuple(f"{f}_{m}" for m in ("contour", "direct") for f in METHOD_FIELDS) + DIFF_FIELDS)
 
 
+#: per-method fields of a row of a horizonless model (dispersive turning point)
+TURNING_FIELDS = ("reflection", "anomalous", "unitarity_residual", "n_in", "success", "message")
+#: the columns of every row of a horizonless model, in order
+TURNING_COLUMNS = (("omega",) + tuple(f"{f}_{m}" for m in ("contour", "direct") for f in TURNING_FIELDS)
+                   + ("max_abs_diff_S",))
+
+
 class ComparisonTable(RowTable):
     """One row (dict) per frequency; see :data:`COLUMNS` for the fields.
 
@@ -52,10 +59,12 @@ class ComparisonTable(RowTable):
 
     columns = COLUMNS
 
-    def __init__(self, rows, *, model_name="", results=None):
+    def __init__(self, rows, *, model_name="", results=None, columns=None):
         super().__init__(rows)
         self.model_name = model_name
         self.results = list(results or [])
+        if columns is not None:
+            self.columns = columns
 
     def __repr__(self):
         from ..scattering.display import rows_repr
@@ -87,6 +96,51 @@ def _method_part(res, name, err):
             f"success_{name}": bool(res.success), f"message_{name}": res.message}
 
 
+def blocked_mode_figures(res):
+    """(reflection, anomalous) of the blocked in-mode of a horizonless result.
+
+    The blocked in-mode is the one that returns most to its own side
+    (largest ``sum |S_oj|^2`` over out-modes on its side); ``reflection`` is
+    ``sum |S_oj|^2`` over those out-modes of its norm sign, ``anomalous`` over
+    the out-modes of the opposite norm sign (the negative-norm conversion).
+    """
+    S = res.S
+    ins, outs = res.in_modes, res.out_modes
+
+    def back(j):
+        return sum(abs(S[o, j]) ** 2 for o, mo in enumerate(outs) if mo.side == ins[j].side)
+    j = max(range(len(ins)), key=back)
+    refl = sum(abs(S[o, j]) ** 2 for o, mo in enumerate(outs) if mo.side == ins[j].side and mo.norm == ins[j].norm)
+    anom = sum(abs(S[o, j]) ** 2 for o, mo in enumerate(outs) if mo.norm != ins[j].norm)
+    return float(refl), float(anom)
+
+
+def _matched(ra, rb):
+    """Largest difference of |S| entries of two results, modes matched by side, direction, norm and Re k."""
+    def order(modes):
+        keys = [(m.side, m.direction, m.norm) for m in modes]
+        return sorted(range(len(modes)), key=lambda i: (keys[i], modes[i].k.real))
+    if ([(m.side, m.direction, m.norm) for m in sorted(ra.in_modes, key=lambda m: (m.side, m.direction, m.norm))]
+            != [(m.side, m.direction, m.norm) for m in sorted(rb.in_modes, key=lambda m: (m.side, m.direction, m.norm))]
+            or len(ra.out_modes) != len(rb.out_modes)):
+        return None
+    ia, ib, oa, ob = order(ra.in_modes), order(rb.in_modes), order(ra.out_modes), order(rb.out_modes)
+    return float(max(abs(abs(ra.S[oa[o], ia[j]]) - abs(rb.S[ob[o], ib[j]]))
+                     for o in range(len(oa)) for j in range(len(ia))))
+
+
+def _turning_part(res, name, err):
+    if res is None:
+        out = {f"{f}_{name}": None for f in TURNING_FIELDS}
+        out[f"success_{name}"] = False
+        out[f"message_{name}"] = err
+        return out
+    refl, anom = blocked_mode_figures(res)
+    return {f"reflection_{name}": refl, f"anomalous_{name}": anom,
+            f"unitarity_residual_{name}": float(res.unitarity_residual), f"n_in_{name}": len(res.in_modes),
+            f"success_{name}": bool(res.success), f"message_{name}": res.message}
+
+
 def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", contour_options=None,
             direct_options=None):
     """Contour (near-horizon) and direct (full-profile) figures, one row per omega.
@@ -114,7 +168,13 @@ def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", c
         ``effective_temperature``, ``temperature_ratio`` (T_eff/T_H),
         ``unitarity_residual``, ``error_estimate``, ``n_in``, ``success``,
         ``message``; and the relative differences (contour - direct)/direct.
-        Missing values are None, never NaN.
+        Missing values are None, never NaN.  For a horizonless model (no
+        Hawking channel; the contour method works at its dispersive turning
+        point) the rows have the fields of :data:`TURNING_COLUMNS` instead:
+        per method ``reflection`` and ``anomalous`` of the blocked in-mode
+        (:func:`blocked_mode_figures`), ``unitarity_residual``, ``n_in``,
+        ``success``, ``message``, and ``max_abs_diff_S``, the largest
+        difference of |S| entries with the modes matched.
 
     Examples
     --------
@@ -150,10 +210,14 @@ def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", c
         copts.setdefault("validity_tol", None)
     runners = {"contour": lambda w: model.scatter(w, **copts),
                "direct": lambda w: direct.scatter(model, w, **(direct_options or {}))}
-    kappa = float(model.kappa)
+    horizonless = model.horizon is None
+    if horizonless:
+        copts.pop("validity_tol", None)
+    kappa = None if horizonless else float(model.kappa)
     rows, results = [], []
     for w in ws:
-        row = {"omega": w, "omega_over_kappa": w / kappa, "hawking_temperature": kappa / (2 * math.pi)}
+        row = {"omega": w} if horizonless else {"omega": w, "omega_over_kappa": w / kappa,
+                                                 "hawking_temperature": kappa / (2 * math.pi)}
         got = {}
         for name in ("contour", "direct"):
             res, err = None, "not requested"
@@ -165,12 +229,17 @@ def compare(model, omegas, *, methods=("contour", "direct"), on_error="raise", c
                         raise
                     err = f"{type(exc).__name__}: {exc}"
             got[name] = res
-            row.update(_method_part(res, name, err))
-        for f, key in zip(DIFF_FIELDS, ("occupation", "thermal_ratio", "effective_temperature")):
-            row[f] = _rel(row[f"{key}_contour"], row[f"{key}_direct"])
+            row.update((_turning_part if horizonless else _method_part)(res, name, err))
+        if horizonless:
+            both = got["contour"] is not None and got["direct"] is not None
+            row["max_abs_diff_S"] = _matched(got["contour"], got["direct"]) if both else None
+        else:
+            for f, key in zip(DIFF_FIELDS, ("occupation", "thermal_ratio", "effective_temperature")):
+                row[f] = _rel(row[f"{key}_contour"], row[f"{key}_direct"])
         rows.append(row)
         results.append(got)
-    return ComparisonTable(rows, model_name=getattr(model, "name", ""), results=results)
+    return ComparisonTable(rows, model_name=getattr(model, "name", ""), results=results,
+                           columns=TURNING_COLUMNS if horizonless else None)
 
 
 def plot_comparison(table, *, ax=None, quantity="temperature_ratio"):

@@ -251,7 +251,7 @@ def _verify_horizon(src, model, kw):
     kind is supported and kappa must be finite and nonzero
     (:func:`contourkit.symbolic.horizon.checked_kappa`).
     """
-    if not isinstance(model, HorizonModel):
+    if not isinstance(model, HorizonModel) or model.horizon is None:   # no equation, or a horizonless flow
         return model
     x = model.x
     xh = float(model.horizon)

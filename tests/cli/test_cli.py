@@ -19,6 +19,7 @@ ROOT = pathlib.Path(__file__).resolve().parents[2]
 MODELS = ROOT / "worked_examples" / "models"
 NONDISP = MODELS / "nondispersive.toml"
 SUPER = MODELS / "superluminal.toml"
+COUNTER = MODELS / "counter_current.toml"
 
 
 def run(*args, cwd=None, timeout=240):
@@ -176,3 +177,28 @@ def test_error_names_the_problem(tmp_path):
     proc = run("derive", "--catalogue", "quartic_flow", "--param", "kapa=0.1")
     assert_one_line_error(proc)
     assert "kapa" in proc.stderr and "kappa" in proc.stderr
+
+
+@pytest.mark.slow
+def test_check_horizonless_flow(tmp_path):
+    """A horizonless model file: the blocked wave is totally reflected (common practice) by both methods,
+    pseudo-unitarity holds, and the S-matrices agree; the table goes to CSV."""
+    out = tmp_path / "check.csv"
+    proc = run("check", COUNTER, "--omega", 0.26, 0.28, "--out", out)
+    assert proc.returncode == 0, proc.stderr
+    assert "horizonless flow" in proc.stdout
+    with open(out) as fh:
+        rows = [r for r in csv.DictReader(line for line in fh if not line.startswith("#"))]
+    assert len(rows) == 2
+    for r in rows:
+        for m in ("contour", "direct"):
+            assert abs(float(r[f"reflection_{m}"]) - 1) < 1e-8
+            assert float(r[f"unitarity_residual_{m}"]) < 1e-8
+        assert float(r["max_abs_diff_S"]) < 0.05
+
+
+def test_horizonless_flow_refused_where_a_horizon_is_needed():
+    for cmd in (("spectrum", COUNTER, "--points", 3), ("greybody", COUNTER)):
+        proc = run(*cmd)
+        assert_one_line_error(proc)
+        assert "horizonless flow" in proc.stderr and "contourkit check" in proc.stderr

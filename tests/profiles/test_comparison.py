@@ -96,3 +96,26 @@ def test_record_errors(sup):
     row = t.rows[0]
     assert row["success_direct"] is False and "InputError" in row["message_direct"]
     assert row["thermal_ratio_direct"] is None
+
+
+@pytest.mark.slow
+def test_horizonless_rows():
+    """A horizonless flow: rows of the turning-point figures, both methods.  Total reflection of the blocked
+    wave (common practice), pseudo-unitarity, and the S-matrices agree entry by entry (|S| to 0.05)."""
+    import pathlib
+    from contourkit.profiles.comparison import TURNING_COLUMNS
+    from contourkit.symbolic.modelfile import load_model
+    m = load_model(pathlib.Path(__file__).resolve().parents[2] / "worked_examples" / "models" / "counter_current.toml")
+    t = compare(m, [0.27, 0.5], on_error="record")
+    assert tuple(t._fields()) == TURNING_COLUMNS
+    r, above = t.rows
+    for name in ("contour", "direct"):
+        assert r[f"success_{name}"]
+        assert abs(r[f"reflection_{name}"] - 1) < 1e-8
+        assert r[f"unitarity_residual_{name}"] < 1e-8
+        assert r[f"anomalous_{name}"] < 1e-12
+    assert r["max_abs_diff_S"] < 0.05
+    # above the blocking band there is no turning point: the contour row is recorded, not raised
+    assert not above["success_contour"] and "turning point" in above["message_contour"]
+    assert above["success_direct"] and above["reflection_direct"] < 1e-3
+    assert above["max_abs_diff_S"] is None

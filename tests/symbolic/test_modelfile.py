@@ -257,3 +257,13 @@ def test_random_ode_equations_only_contourkit_errors(tmp_path_factory, left, op,
         load_model(p)
     except ContourkitError:
         pass
+
+
+def test_horizonless_file_loads(tmp_path):
+    """[horizon] position = "none" (docs/tutorial.md): a horizonless flow, with its turning points."""
+    import pathlib
+    m = load_model(pathlib.Path(__file__).resolve().parents[2] / "worked_examples" / "models" / "counter_current.toml")
+    assert m.horizon is None and m.kappa is None
+    tps = m.turning_points(0.27)
+    # by hand: D = (0.27 + 0.35 k)^2 - k^2 + k^4 and dD/dk both vanish at k = 0.6 (v = -0.35, inside the profile)
+    assert len(tps) == 1 and abs(tps[0].k - 0.6) < 1e-9
