@@ -81,12 +81,17 @@ def _rel(a, b):
     return (a - b) / abs(b)
 
 
+def _missing(fields, name, err):
+    """The per-method fields of a row whose method did not run (or failed): None, with the reason."""
+    out = {f"{f}_{name}": None for f in fields}
+    out[f"success_{name}"] = False
+    out[f"message_{name}"] = err
+    return out
+
+
 def _method_part(res, name, err):
     if res is None:
-        out = {f"{f}_{name}": None for f in METHOD_FIELDS}
-        out[f"success_{name}"] = False
-        out[f"message_{name}"] = err
-        return out
+        return _missing(METHOD_FIELDS, name, err)
     T = float(res.effective_temperature) if res.effective_temperature is not None else math.inf
     return {f"occupation_{name}": float(res.occupation), f"thermal_ratio_{name}": float(res.thermal_ratio),
             f"effective_temperature_{name}": T if math.isfinite(T) else None,
@@ -131,10 +136,7 @@ def _matched(ra, rb):
 
 def _turning_part(res, name, err):
     if res is None:
-        out = {f"{f}_{name}": None for f in TURNING_FIELDS}
-        out[f"success_{name}"] = False
-        out[f"message_{name}"] = err
-        return out
+        return _missing(TURNING_FIELDS, name, err)
     refl, anom = blocked_mode_figures(res)
     return {f"reflection_{name}": refl, f"anomalous_{name}": anom,
             f"unitarity_residual_{name}": float(res.unitarity_residual), f"n_in_{name}": len(res.in_modes),

@@ -25,7 +25,6 @@ import argparse
 import json
 import os
 import platform
-import re
 import resource
 import statistics
 import subprocess
@@ -37,6 +36,7 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 ROOT = os.path.abspath(os.path.join(HERE, "..", ".."))
 PAGE = os.path.join(ROOT, "docs", "performance.md")
 sys.path.insert(0, ROOT)
+from _page import write_section  # noqa: E402
 
 PY_SPECTRUM = r"""
 import json, sys, time
@@ -242,14 +242,7 @@ def main(argv=None):
     block = report(cli, dr, a.rounds)
     print(block)
     if not a.no_write:
-        with open(PAGE) as fh:
-            text = fh.read()
-        if "<!-- runs:start -->" in text:
-            text = re.sub(r"<!-- runs:start -->.*<!-- runs:end -->", lambda _: block, text, flags=re.S)
-        else:
-            text = text.rstrip("\n") + "\n\n" + block + "\n"
-        with open(PAGE, "w") as fh:
-            fh.write(text)
+        write_section("runs", block, PAGE)
 
 
 if __name__ == "__main__":

@@ -23,7 +23,6 @@ import argparse
 import collections
 import os
 import platform
-import re
 import sys
 import time
 import warnings
@@ -33,8 +32,8 @@ import numpy as np
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", ".."))
 import contourkit as ck  # noqa: E402
+from _page import write_section  # noqa: E402
 
-PAGE = os.path.join(HERE, "..", "..", "docs", "performance.md")
 
 
 def best(f, repeat):
@@ -150,13 +149,7 @@ def main(points=100, repeat=5, n_direct=10):
         "<!-- scattering:end -->",
     ]
     block = "\n".join(lines)
-    text = open(PAGE).read() if os.path.exists(PAGE) else "# Performance\n"
-    if "<!-- scattering:start -->" in text:
-        text = re.sub(r"<!-- scattering:start -->.*<!-- scattering:end -->", lambda _: block, text, flags=re.S)
-    else:
-        text = text.rstrip() + "\n\n" + block + "\n"
-    with open(PAGE, "w") as fh:
-        fh.write(text)
+    write_section("scattering", block)
     print(block)
 
 

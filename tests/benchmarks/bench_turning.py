@@ -17,7 +17,6 @@ Run:  python tests/benchmarks/bench_turning.py [--repeat 3]
 import argparse
 import os
 import platform
-import re
 import sys
 import time
 import warnings
@@ -28,8 +27,8 @@ import sympy as sp
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", ".."))
 import contourkit as ck  # noqa: E402
+from _page import write_section  # noqa: E402
 
-PAGE = os.path.join(HERE, "..", "..", "docs", "performance.md")
 w, k, x = sp.symbols("omega k x")
 
 
@@ -86,13 +85,7 @@ def main(repeat=3, lengths=(5, 20, 80, 500), om=0.27):
         "<!-- turning:end -->",
     ]
     block = "\n".join(lines)
-    text = open(PAGE).read()
-    if "<!-- turning:start -->" in text:
-        text = re.sub(r"<!-- turning:start -->.*<!-- turning:end -->", lambda _: block, text, flags=re.S)
-    else:
-        text = text.rstrip() + "\n\n" + block + "\n"
-    with open(PAGE, "w") as fh:
-        fh.write(text)
+    write_section("turning", block)
     print(block)
 
 

@@ -1,0 +1,18 @@
+"""The shared writer of docs/performance.md: each benchmark owns one marked section."""
+import os
+import re
+
+PAGE = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "docs", "performance.md")
+
+
+def write_section(name, block, page=PAGE):
+    """Replace the text between ``<!-- name:start -->`` and ``<!-- name:end -->`` (block includes both
+    markers), or append the block when the page has no such section."""
+    text = open(page).read() if os.path.exists(page) else "# Performance\n"
+    start, end = f"<!-- {name}:start -->", f"<!-- {name}:end -->"
+    if start in text:
+        text = re.sub(re.escape(start) + ".*" + re.escape(end), lambda _: block, text, flags=re.S)
+    else:
+        text = text.rstrip("\n") + "\n\n" + block + "\n"
+    with open(page, "w") as fh:
+        fh.write(text)
