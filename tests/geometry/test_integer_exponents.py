@@ -101,3 +101,20 @@ def test_half_line_from_a_pole_is_refused():
     with pytest.raises(ck.ContourError, match="diverges"):
         rep.evaluate(ck.Contour.half_line(-sp.I), 1.0)
     assert math.isfinite(abs(complex(rep.evaluate(ck.Contour.loop(-sp.I), 1.0))))
+
+
+@pytest.mark.parametrize("sign, refs", [
+    (+1, (lambda z: ss.spherical_jn(0, z), lambda z: ss.spherical_yn(0, z))),
+    (-1, (lambda z: ss.spherical_in(0, z), lambda z: ss.spherical_kn(0, z)))])
+def test_only_ordinary_zeros(sign, refs):
+    """z y'' + 2 y' +- z y = 0: exponent 0 at both zeros of B (k = -+1, or -+i), so f has no singular
+    point and no saddle; the basis is two half-lines, each closed by the descent path from its end.
+    Solutions j_0, y_0 (DLMF 10.49.3) and i_0, k_0 (DLMF 10.49.8, 10.49.12; equation numbers from
+    memory); reference values scipy.special.spherical_jn/yn/in/kn."""
+    rep = ck.ModeEquation.from_ode(X * Y(X).diff(X, 2) + 2 * Y(X).diff(X) + sign * X * Y(X), Y, X).fourier()
+    assert rep.singularities == [] and len(rep.ordinary_zeros) == 2
+    cs = rep.basis()
+    xs = np.linspace(0.5, 12.0, 10)
+    V = np.array([[complex(rep.evaluate(c, float(x))) for c in cs] for x in xs])
+    for f in refs:
+        assert _span_error(V, f(xs).astype(complex)) < 1e-9
