@@ -204,9 +204,14 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False, spiral
                     e = thims[ie].plus
                     cl += [(ti, -sg, m) for sg, m in crossings(rep, e.k, e.logs, t.up_plus, +1)]
                     cl += [(ti, -sg, m) for sg, m in crossings(rep, e.k, e.logs, t.up_minus, -1)]
-            n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
-            size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
-            if cl and not (math.isfinite(abs(n)) and math.isfinite(size) and size > 0):
+            try:
+                with np.errstate(over="ignore", invalid="ignore"):
+                    n = complex(coefficient(rep, cont.terms, cl, nu, exp2))
+                    size = sum(abs(complex(coefficient(rep, cont.terms, [q], nu, exp2))) for q in cl)
+                    finite = math.isfinite(abs(n)) and math.isfinite(size) and size > 0
+            except OverflowError:          # |n| beyond the double range although its parts are finite
+                finite = False
+            if cl and not finite:
                 # sheet factors exp(2 pi i m nu) beyond double range: decide in mpmath
                 n, keep = _wide_coefficient(rep, cont.terms, cl, nu)
                 if keep and not exact:

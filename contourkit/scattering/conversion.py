@@ -44,9 +44,16 @@ from ..errors import AccuracyError, InputError, ScatteringError
 from ..geometry.decompose import decompose
 from ..symbolic._sym import exact, exact_expr
 from ..symbolic.symmetric import linearise
+from dataclasses import replace
+
 from .modes import DispersionDerivatives
+from .oriented import map_mode, time_reverse_S
 from .results import ScatteringResult
 from .smatrix import _side_constants, in_mode_smatrix
+
+
+#: the largest working precision the turning-point S-matrix escalates to
+MAX_DPS = 4000
 
 
 def _geometry(rep, contours, X):
@@ -93,11 +100,15 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
     contours = rep.basis()
     lin = [(exact_expr(mpmath_free(a)), exact_expr(mpmath_free(b))) for a, b in linearise(model.g, model.x, exact(xt))]
     dd = DispersionDerivatives(types.SimpleNamespace(_lin=lin), w, eq)
-    def attempt(Xa):
+    geoms = {}
+
+    def attempt(Xa, work=dps):
         rows = []
         for sign in (+1, -1):
-            g0, coeffs = _geometry(rep, contours, sign * Xa)
-            mods, N = _side_constants(rep, contours, dd, (sign * Xa, g0, coeffs, None), dps)
+            if sign * Xa not in geoms:
+                geoms[sign * Xa] = _geometry(rep, contours, sign * Xa)
+            g0, coeffs = geoms[sign * Xa]
+            mods, N = _side_constants(rep, contours, dd, (sign * Xa, g0, coeffs, None), work)
             rows += [(md, N) for md in mods]
         ins = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "in"]
         outs = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
@@ -119,25 +130,116 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
                               f"({err}); the exponents at its branch points are large when the profile varies "
                               f"slowly; use contourkit.direct.scatter for this flow") from err
     n_c = len(contours)
-    with mpmath.workdps(dps + 10):
-        try:
-            S, resid, _ = in_mode_smatrix(ins, outs, grow, n_c)
-        except ZeroDivisionError:
-            raise ScatteringError("the in-mode amplitudes at the turning point are degenerate; give another X=")
-        resid = float(resid)
+    # the amplitudes span many decades (sheet factors exp(2 pi |Im nu|)); where the solve cancels across
+    # them, pseudo-unitarity fails, and the working precision is raised to the decades spanned
+    work = dps
+    for _ in range(6):
+        with mpmath.workdps(work + 10):
+            try:
+                S, resid, lost = in_mode_smatrix(ins, outs, grow, n_c)
+            except ZeroDivisionError:
+                S = None
+        if S is not None and mpmath.isfinite(resid) and resid < mpmath.mpf(10) ** (-30):
+            break
+        if work >= MAX_DPS:
+            raise ScatteringError(f"the amplitudes at the turning point x_t = {xt:.6g} span more decades than "
+                                  f"{MAX_DPS} digits resolve; use contourkit.direct.scatter for this flow")
+        work = min(MAX_DPS, max(work + 20, int(lost) + dps + 20 if S is not None else 2 * work))
+        ins, outs, grow = attempt(X, work)
+    resid = float(resid)
     in_modes, out_modes = [md.mode for md, _ in ins], [md.mode for md, _ in outs]
     for m in in_modes + out_modes:
         m.x = None if m.x is None else float(m.x) + xt
     S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
+    if not (np.all(np.isfinite(S_np)) and resid < 1e-3):
+        raise ScatteringError(f"the S-matrix at the turning point x_t = {xt:.6g} is not pseudo-unitary (residual "
+                              f"{resid:.3g}): the modes read at x_t -+ {X:.4g} are not asymptotic; give another X= "
+                              f"or use contourkit.direct.scatter")
     ok = resid < 1e-6
     msg = (f"turning point x_t = {xt:.6g}, k_t = {point.k:.6g}; modes read at x_t -+ {X:.4g} "
            f"(Airy length {ell:.4g}); coefficients of the profile linearised at x_t")
     return ScatteringResult(
         omega=w, in_modes=in_modes, out_modes=out_modes, S=S_np, unitarity_residual=resid, hawking_index=None,
         alpha=0j, beta=0j, others={}, thermal_ratio=0.0, occupation=0.0, effective_temperature=0.0,
-        hawking_temperature=0.0, kappa=0.0, dps=dps, error_estimate=max(resid, (ell / X) ** 1.5),
+        hawking_temperature=0.0, kappa=0.0, dps=work, error_estimate=max(resid, (ell / X) ** 1.5),
         success=ok, message=msg, method="contour (turning point)",
         extra={"x_t": xt, "k_t": point.k, "X": X, "airy_length": ell}, convention=getattr(model, "orientation", None))
+
+
+#: (flow direction, side where the blocked wave is real) -> (sk, sx, time reversed) onto the canonical
+#: orientation (flow towards -x, blocked wave real on the -x side)
+_HORIZONLESS = {("-x", "-x"): (1, 1, False), ("-x", "+x"): (1, -1, True),
+                ("+x", "+x"): (-1, -1, False), ("+x", "-x"): (-1, 1, True)}
+
+
+def scatter_horizonless(model, omega, **kw):
+    """S-matrix of a horizonless flow by contours at its one dispersive turning point, in the user's x.
+
+    The contour method works in one orientation: the flow runs towards -x and
+    the blocked wave lives on the -x side of the turning point. There the
+    amplitudes of the basis span few decades. Every other orientation is
+    mapped onto it by parity P (``x -> -x``), time reversal T (complex
+    conjugation of the stationary modes: in and out exchanged, norms kept),
+    or both (``model.transformed_flow``), as for horizons
+    (:mod:`contourkit.scattering.oriented`):
+
+    * P: wavenumbers, positions and group velocities change sign, and the
+      sides exchange, because a horizonless flow's exterior is its
+      ``x -> +infinity`` side in the user's x;
+    * T: ``S' = eta_in S^T eta_out``, with the user's in-modes the conjugated
+      canonical out-modes.
+
+    Parameters
+    ----------
+    model : HorizonModel
+        A horizonless flow.
+    omega : float
+        The frequency.
+    **kw
+        Options of :func:`scatter_turning_point`.
+
+    Returns
+    -------
+    ScatteringResult
+
+    Examples
+    --------
+    >>> import sympy as sp, contourkit as ck
+    >>> w, k, x = sp.symbols("omega k x")
+    >>> v = sp.Rational(71, 200) + sp.Rational(9, 200) * sp.tanh(x / 5)      # towards +x
+    >>> m = ck.HorizonModel.from_dispersion((w - v*k)**2 - k**2 + k**4, omega=w, k=k, x=x, horizon="none",
+    ...                                     window=(-250, 250))
+    >>> res = m.scatter(0.27)
+    >>> res.unitarity_residual < 1e-8
+    True
+    """
+    tps = model.turning_points(omega)
+    o = getattr(model, "orientation", None)
+    sk, sx, tr = _HORIZONLESS[(o.flow if o is not None else "-x", tps[0].real_side)]
+    if (sk, sx, tr) == (1, 1, False):
+        return scatter_turning_point(model, omega, tps[0], **kw)
+    can = model.transformed_flow((sk, sx))
+    ctps = can.turning_points(omega)
+    if len(ctps) != 1 or ctps[0].real_side != "-x":
+        raise ScatteringError(f"the {'time reverse' if tr else 'mirror image'} of this flow has no single turning "
+                              f"point in the canonical orientation at omega = {omega}; use contourkit.direct.scatter")
+    res = scatter_turning_point(can, omega, ctps[0], **kw)
+    swap = {"exterior": "interior", "interior": "exterior"} if sx == -1 else {}
+
+    def back(m):
+        m = map_mode(m, (sk, sx), tr)
+        return replace(m, side=swap.get(m.side, m.side))
+    if tr:
+        S = time_reverse_S(res.S, [m.norm for m in res.in_modes], [m.norm for m in res.out_modes])
+        ins, outs = [back(m) for m in res.out_modes], [back(m) for m in res.in_modes]
+    else:
+        S, ins, outs = res.S, [back(m) for m in res.in_modes], [back(m) for m in res.out_modes]
+    what = {(1, -1): "mirror image and time reverse", (-1, -1): "mirror image", (-1, 1): "time reverse"}[(sk, sx)]
+    extra = dict(res.extra, x_t=sx * res.extra["x_t"], k_t=sk * res.extra["k_t"], canonical_result=res)
+    out = replace(res, in_modes=ins, out_modes=outs, S=S, extra=extra,
+                  message=res.message + f"; computed for the {what} of the flow and mapped back to the user's x")
+    out.convention = o
+    return out
 
 
 def mpmath_free(e):

@@ -429,10 +429,32 @@ class HorizonModel:
             self._canonical = m
         return self._canonical
 
+    def transformed_flow(self, transform):
+        """A horizonless flow under parity and/or time reversal: ``D(omega, sk k, sx x)``.
+
+        ``transform = (sk, sx)`` as in :mod:`contourkit.symbolic.orientation`:
+        ``(-1, -1)`` is the mirror image ``x -> -x``, ``(-1, 1)`` the time
+        reverse, ``(1, -1)`` both.  The contour method at a dispersive turning
+        point works in one orientation (flow towards -x, the blocked wave on
+        the -x side of the turning point); the others are mapped onto it
+        (:func:`contourkit.scattering.conversion.scatter_horizonless`).
+        """
+        if self.horizon is not None:
+            raise HorizonError("transformed_flow is for horizonless flows; a horizon model maps onto its "
+                               "canonical orientation with canonical_model()")
+        cache = self.__dict__.setdefault("_transformed", {})
+        if transform not in cache:
+            a, b = self.window
+            cache[transform] = HorizonModel(transform_coefficients(self.g, self.x, transform), omega=self.omega,
+                                            x=self.x, name=self.name, horizon="none",
+                                            window=(a, b) if transform[1] == 1 else (-b, -a),
+                                            parameters=self.parameters, description=self.description)
+        return cache[transform]
+
     def __getstate__(self):
         # caches hold lambdified functions (not picklable); workers rebuild them
         state = dict(self.__dict__)
-        for key in ("_eq_cache", "_dDdw_cache", "_direct_cache", "_family_cache"):
+        for key in ("_eq_cache", "_dDdw_cache", "_direct_cache", "_family_cache", "_transformed"):
             state.pop(key, None)
         state["_eq_cache"] = {}
         return state
@@ -522,7 +544,7 @@ class HorizonModel:
                     f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "
                     f"({', '.join(f'x = {t.x:.6g}' for t in tps) or 'none'}); the contour method scatters at "
                     f"exactly one; use contourkit.direct.scatter for the full profile")
-            return extensions.call("scatter_turning_point", self, omega, tps[0], **kw)
+            return extensions.call("scatter_horizonless", self, omega, **kw)
         return extensions.call("scatter", self, omega, **kw)
 
     def spectrum(self, omegas, **kw):
