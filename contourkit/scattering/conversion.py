@@ -114,47 +114,50 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
         outs = [(md, N) for md, N in rows if md.mode.kind == "propagating" and md.mode.direction == "out"]
         grow = [(md, N) for md, N in rows if md.mode.kind == "growing"]
         if len(ins) + len(grow) != len(contours):
-            raise ScatteringError(f"mode counting at the turning point does not close at xi = -+{Xa:.4g}: "
+            raise ScatteringError(f"mode counting does not close at xi = -+{Xa:.4g}: "
                                   f"{len(ins)} in-modes and {len(grow)} growing modes for {len(contours)} solutions")
         return ins, outs, grow
+    n_c = len(contours)
+
+    def solve(Xa):
+        """S at X = Xa; the amplitudes span many decades (sheet factors exp(2 pi |Im nu|)): where the
+        solve cancels across them, pseudo-unitarity fails, and the precision rises to the decades spanned."""
+        ins, outs, grow = attempt(Xa)
+        work = dps
+        for _ in range(6):
+            with mpmath.workdps(work + 10):
+                try:
+                    S, resid, lost = in_mode_smatrix(ins, outs, grow, n_c)
+                except ZeroDivisionError:
+                    S = None
+            if S is not None and mpmath.isfinite(resid) and resid < mpmath.mpf(10) ** (-30):
+                break
+            if work >= MAX_DPS:
+                raise ScatteringError(f"the amplitudes span more decades than {MAX_DPS} digits resolve")
+            work = min(MAX_DPS, max(work + 20, int(lost) + dps + 20 if S is not None else 2 * work))
+            ins, outs, grow = attempt(Xa, work)
+        if not (mpmath.isfinite(resid) and resid < 1e-3):
+            raise ScatteringError(f"the S-matrix is not pseudo-unitary (residual {float(resid):.3g}): the modes "
+                                  f"read at x_t -+ {Xa:.4g} are not asymptotic")
+        return ins, outs, S, resid, work
+
     err = None
     for Xtry in ((X,) if X_given else (X, 0.6 * X, 1.5 * X, 0.4 * X)):
         try:
-            ins, outs, grow = attempt(Xtry)
+            ins, outs, S, resid, work = solve(Xtry)
             X = Xtry
             break
         except (AccuracyError, ScatteringError) as exc:
             err = exc
     else:
-        raise ScatteringError(f"the k-space geometry at the turning point x_t = {xt:.6g} could not be traced "
-                              f"({err}); the exponents at its branch points are large when the profile varies "
-                              f"slowly; use contourkit.direct.scatter for this flow") from err
-    n_c = len(contours)
-    # the amplitudes span many decades (sheet factors exp(2 pi |Im nu|)); where the solve cancels across
-    # them, pseudo-unitarity fails, and the working precision is raised to the decades spanned
-    work = dps
-    for _ in range(6):
-        with mpmath.workdps(work + 10):
-            try:
-                S, resid, lost = in_mode_smatrix(ins, outs, grow, n_c)
-            except ZeroDivisionError:
-                S = None
-        if S is not None and mpmath.isfinite(resid) and resid < mpmath.mpf(10) ** (-30):
-            break
-        if work >= MAX_DPS:
-            raise ScatteringError(f"the amplitudes at the turning point x_t = {xt:.6g} span more decades than "
-                                  f"{MAX_DPS} digits resolve; use contourkit.direct.scatter for this flow")
-        work = min(MAX_DPS, max(work + 20, int(lost) + dps + 20 if S is not None else 2 * work))
-        ins, outs, grow = attempt(X, work)
+        raise ScatteringError(f"the contour method at the turning point x_t = {xt:.6g} failed at every X tried "
+                              f"(last: {err}); give another X= or use contourkit.direct.scatter, which holds "
+                              f"for any profile with two uniform regions") from err
     resid = float(resid)
     in_modes, out_modes = [md.mode for md, _ in ins], [md.mode for md, _ in outs]
     for m in in_modes + out_modes:
         m.x = None if m.x is None else float(m.x) + xt
     S_np = np.array([[complex(S[i, j]) for j in range(S.cols)] for i in range(S.rows)])
-    if not (np.all(np.isfinite(S_np)) and resid < 1e-3):
-        raise ScatteringError(f"the S-matrix at the turning point x_t = {xt:.6g} is not pseudo-unitary (residual "
-                              f"{resid:.3g}): the modes read at x_t -+ {X:.4g} are not asymptotic; give another X= "
-                              f"or use contourkit.direct.scatter")
     ok = resid < 1e-6
     msg = (f"turning point x_t = {xt:.6g}, k_t = {point.k:.6g}; modes read at x_t -+ {X:.4g} "
            f"(Airy length {ell:.4g}); coefficients of the profile linearised at x_t")

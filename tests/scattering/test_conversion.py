@@ -128,3 +128,21 @@ def test_every_orientation_of_a_horizonless_flow(flow, blocked):
     assert _matched(rc, rd) < 1e-5                           # measured 5e-9
     assert abs(blocked_mode_figures(rc)[0] - 1) < 1e-8 and abs(blocked_mode_figures(rd)[0] - 1) < 1e-8
     assert abs(rc.extra["x_t"] - m.turning_points(0.27)[0].x) < 1e-9       # positions in the user's x
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("om", [0.25, 0.3])
+def test_turning_point_sextic_counter_current(om):
+    """Sixth-order dispersion (two more modes, k ~ -+3): contour against the direct solver entry by entry;
+    at omega = 0.25 the modes read at the first X give a non-unitary S-matrix and the next X is taken."""
+    from contourkit.profiles.comparison import _matched
+    v = -sp.Rational(7, 20) - sp.Rational(1, 20) * sp.tanh(x / 15)
+    m = ck.HorizonModel.from_dispersion((w - v * k) ** 2 - k ** 2 + k ** 4 - k ** 6 / 10, omega=w, k=k, x=x,
+                                        horizon="none", window=(-600, 600))
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", CoalescenceWarning)
+        rc = m.scatter(om)
+    rd = ck.direct.scatter(m, om)
+    assert len(rc.in_modes) == len(rd.in_modes) == 5
+    assert rc.unitarity_residual <= 1e-8 and rd.unitarity_residual <= 1e-8
+    assert _matched(rc, rd) < 1e-5                           # measured 3e-8
