@@ -9,7 +9,8 @@ paths on the Riemann surface of f: no cut is crossed "by accident".
 
 The branch at the start of a contour is the cut-plane branch: every cut runs
 from k_j in the direction ``cut_angle`` and ``arg(k - k_j)`` is taken in
-``(cut_angle, cut_angle + 2 pi]``.
+``(cut_angle, cut_angle + 2 pi]``; a point within 1e-9 rad of the cut is on
+its top side (``cut_angle + 2 pi``).
 """
 import math
 
@@ -22,7 +23,9 @@ def cut_plane_logs(rep, k):
     k = np.atleast_1d(np.asarray(k, dtype=complex))
     z = k[:, None] - rep._kj[None, :]
     ang = np.angle(z * np.exp(-1j * rep.cut_angle))      # in (-pi, pi]
-    ang = np.where(ang <= 0, ang + 2 * np.pi, ang)        # in (0, 2 pi]
+    # in (0, 2 pi]; a point on the cut (to 1e-9 rad) gets the top, whichever side rounding put it on: the
+    # ray of a valley centred on the cut direction would otherwise start on either sheet
+    ang = np.where(ang <= 1e-9, ang + 2 * np.pi, ang)
     return np.log(np.abs(z)) + 1j * (ang + rep.cut_angle)
 
 

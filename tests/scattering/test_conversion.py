@@ -133,8 +133,9 @@ def test_every_orientation_of_a_horizonless_flow(flow, blocked):
 @pytest.mark.slow
 @pytest.mark.parametrize("om", [0.25, 0.3])
 def test_turning_point_sextic_counter_current(om):
-    """Sixth-order dispersion (two more modes, k ~ -+3): contour against the direct solver entry by entry;
-    at omega = 0.25 the modes read at the first X give a non-unitary S-matrix and the next X is taken."""
+    """Sixth-order dispersion (two more modes, k ~ -+3): contour against the direct solver entry by entry.
+    One valley is centred on the cut direction; its contour used to start on either sheet of log k by
+    rounding, differently at x_t - X and x_t + X (phase.cut_plane_logs now puts the cut on its top side)."""
     from contourkit.profiles.comparison import _matched
     v = -sp.Rational(7, 20) - sp.Rational(1, 20) * sp.tanh(x / 15)
     m = ck.HorizonModel.from_dispersion((w - v * k) ** 2 - k ** 2 + k ** 4 - k ** 6 / 10, omega=w, k=k, x=x,
