@@ -41,81 +41,10 @@ from . import extensions
 from ._sym import KS, OMEGA, I, exact, exact_expr
 from ..errors import ContourkitWarning, HorizonError, InputError, ModelError, ScatteringError
 from .equation import ModeEquation, ode_coefficients
-from .orientation import Orientation, transform_coefficients
+from .orientation import Orientation, transformed_model
+from .profilesubs import (_align, _normalise_parameters, _profile_substitutions, _short, _symbolic_source,
+                          _touching_points)
 from .symmetric import from_symmetric, linearise, to_symmetric
-
-
-def _short(expr, n=80):
-    """An expression as short text for messages (no numpy reprs)."""
-    t = str(expr)
-    return t if len(t) <= n else t[:n - 3] + "..."
-
-
-def _touching_points(f, xs, vals):
-    """Positions where |c0| has a local minimum that reaches zero without a sign change (touching)."""
-    from scipy.optimize import minimize_scalar
-    scale = float(np.max(np.abs(vals))) or 1.0
-    out = []
-    a = np.abs(vals)
-    for i in range(1, len(xs) - 1):
-        if a[i] <= a[i - 1] and a[i] <= a[i + 1] and a[i] < 1e-2 * scale and vals[i - 1] * vals[i + 1] > 0:
-            r = minimize_scalar(lambda t: abs(float(np.real(f(t)))), bounds=(xs[i - 1], xs[i + 1]),
-                                method="bounded", options={"xatol": 1e-12})
-            if abs(float(np.real(f(r.x)))) <= 1e-9 * scale:
-                out.append(float(r.x))
-    return out
-
-
-
-def _normalise_parameters(parameters):
-    out = {}
-    for s, v in (parameters or {}).items():
-        s = sp.Symbol(s) if isinstance(s, str) else s
-        if not isinstance(s, sp.Symbol):
-            raise InputError(f"parameter names must be strings or sympy Symbols, got {s!r}")
-        out[s] = exact(v, f"the parameter {s}")
-    return out
-
-
-def _align(params, exprs):
-    """Key each parameter by the symbol of the same name in the expressions (a symbol with assumptions
-    and a plain one of the same name are different to sympy)."""
-    names = {}
-    for e in exprs:
-        for s in sp.sympify(e).free_symbols:
-            names.setdefault(s.name, s)
-    return {names.get(s.name, s): v for s, v in params.items()}
-
-
-def _symbolic_source(D, profiles, x, omega, k):
-    """The dispersion function with the profiles substituted and the parameters left as symbols."""
-    subs = _profile_substitutions(profiles, x, {}, strict=False)
-    e = sp.sympify(D).subs(subs).subs(omega, OMEGA).subs(k, KS)
-    return e.subs(x, sp.Symbol("x")) if x != sp.Symbol("x") else e
-
-
-def _profile_substitutions(profiles, x, params, strict=True):
-    subs = {}
-    for name, expr in (profiles or {}).items():
-        e = sp.sympify(expr).subs(params)
-        extra = e.free_symbols - {x}
-        if extra and strict:
-            raise ModelError(f"the profile {name} contains the symbol(s) "
-                             f"{', '.join(sorted(map(str, extra)))} that have no value; add them to parameters")
-        if isinstance(name, str):
-            subs[sp.Symbol(name)] = e
-            subs[sp.Function(name)(x)] = e
-        elif isinstance(name, sp.core.function.UndefinedFunction):
-            subs[name(x)] = e
-            subs[sp.Symbol(str(name))] = e
-        elif isinstance(name, sp.Symbol):
-            subs[name] = e
-            subs[sp.Function(str(name))(x)] = e
-        elif isinstance(name, sp.core.function.AppliedUndef):
-            subs[name] = e
-        else:
-            raise InputError(f"profile names must be strings, Symbols or Functions, got {name!r}")
-    return subs
 
 
 def checked_kappa(kappa, xh):
@@ -415,12 +344,7 @@ class HorizonModel:
         if o.canonical or o.hole == "none":
             return self
         if getattr(self, "_canonical", None) is None:
-            sk, sx = o.transform
-            g = transform_coefficients(self.g, self.x, o.transform)
-            a, b = self.window
-            w = (a, b) if sx == 1 else (-b, -a)
-            m = HorizonModel(g, omega=self.omega, x=self.x, name=self.name, horizon=sx * self.horizon, window=w,
-                             parameters=self.parameters, description=self.description)
+            m = transformed_model(self, o.transform, o.transform[1] * self.horizon)
             if not m.orientation.canonical:  # pragma: no cover - the table in orientation.py is exhaustive
                 raise HorizonError(f"internal error: the transformed model is {m.orientation}")
             for key in ("flow_D", "Lambda", "branch"):
@@ -444,11 +368,7 @@ class HorizonModel:
                                "canonical orientation with canonical_model()")
         cache = self.__dict__.setdefault("_transformed", {})
         if transform not in cache:
-            a, b = self.window
-            cache[transform] = HorizonModel(transform_coefficients(self.g, self.x, transform), omega=self.omega,
-                                            x=self.x, name=self.name, horizon="none",
-                                            window=(a, b) if transform[1] == 1 else (-b, -a),
-                                            parameters=self.parameters, description=self.description)
+            cache[transform] = transformed_model(self, transform, "none")
         return cache[transform]
 
     def __getstate__(self):

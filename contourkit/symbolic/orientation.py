@@ -143,3 +143,15 @@ def transform_coefficients(g, x, transform):
             e = e.subs(x, -x)
         out.append(sp.expand(e * sk ** m))
     return out
+
+
+def transformed_model(model, transform, horizon):
+    """The model ``D(omega, sk k, sx x)`` (same class, parameters and name); its window mirrored if sx = -1.
+
+    ``horizon`` is the new model's horizon position (or ``"none"`` for a
+    horizonless flow).
+    """
+    a, b = model.window
+    return type(model)(transform_coefficients(model.g, model.x, transform), omega=model.omega, x=model.x,
+                       name=model.name, horizon=horizon, window=(a, b) if transform[1] == 1 else (-b, -a),
+                       parameters=model.parameters, description=model.description)
