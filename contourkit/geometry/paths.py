@@ -252,6 +252,11 @@ def _captured(P, j, dist, other_j, clear_j=None):
     if P.ess[j] or nu.real >= 0 or 2 * dist >= lim:
         return False
     kj = P.kj[j]
+    # |g'| at any point of the disc is a lower bound of M: a cheap test first (most calls end here)
+    z0 = 1j * dist
+    g0 = 1.25 * abs(P.d1(kj + z0) - nu / z0)
+    if not (2 * g0 * dist < -nu.real or 4 * g0 * dist <= math.log(2.0) * abs(nu.imag)):
+        return False
     M = 0.0
     for i in range(32):
         z = 2 * dist * cmath.exp(2j * math.pi * i / 32)
