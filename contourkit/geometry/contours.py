@@ -145,12 +145,6 @@ def _singular_index(rep, point):
                        f"{[s.point for s in rep.singularities]}")
 
 
-def integer_exponent(nu):
-    """True for an exponent that is an integer (to 1e-12): f is single-valued around the point."""
-    nu = complex(nu)
-    return abs(nu - round(nu.real)) < 1e-12
-
-
 def half_line_start(rep, point):
     """(index j or None, k_j, straight) for the start of a half-line.
 
@@ -167,7 +161,8 @@ def half_line_start(rep, point):
         if not isinstance(point, bool) and abs(complex(z) - p) <= 1e-9 * max(1.0, abs(p)):
             return None, complex(z), True
     j = _singular_index(rep, point)
-    return j, complex(rep._kj[j]), integer_exponent(rep._nu[j])
+    # an integer exponent (Singularity.kind): f is single-valued around k_j; a pole's half-line is refused later
+    return j, complex(rep._kj[j]), rep.singularities[j].kind in ("zero", "pole")
 
 
 def _valley(rep, x, valley, j=None):
@@ -262,12 +257,33 @@ def _leg(rep, x, kj, j, r, d, th, level, R0):
     return pts + _ray_out(rep, x, start + 1e-3 * R0 * d, th, level, R0)
 
 
+def ray_from(rep, x, j, kj, valley, level, R0, sheet=0):
+    """A half-line drawn as itself: the ray from k_j to the valley, (vertices, logs at the first one).
+
+    ``j`` is the singular index of k_j, or None for an ordinary zero of B.
+    At a singular point the ray starts 1e-9 of the scale away from it (the
+    integrand vanishes or is integrable there), with ``arg(k - k_j)`` on the
+    cut-plane branch plus ``2 pi sheet``; at an ordinary zero it starts at k_j.
+    """
+    th = _valley(rep, x, valley, j).center
+    d = cmath.exp(1j * th)
+    delta = 0.0 if j is None else 1e-9 * max(1.0, abs(kj))
+    verts = _leg(rep, x, kj, -1 if j is None else j, delta, d, th, level, R0)
+    if j is None:
+        verts = [kj] + verts[1:]
+    start_logs = phase.cut_plane_logs(rep, verts[0])[0] if rep._kj.size else np.zeros(0, complex)
+    if j is not None:
+        start_logs[j] = math.log(abs(verts[0] - kj)) + 1j * (_reduce(th, rep.cut_angle) + 2 * math.pi * sheet)
+    return verts, start_logs
+
+
 def representative(rep, x, kind, params, crit, level):
     """A polyline (vertices, start logs) representing an elementary contour at x.
 
     `level` is the value of Re Phi below which a valley ray may stop.
     """
     R0 = scales(rep, crit)
+    start = half_line_start(rep, params["point"]) if kind == "half" else None
     if kind == "real":
         sing = [s.k for s in rep.singularities if abs(s.k.imag) <= 1e-12 * max(1.0, abs(s.k))]
         sing = sorted(sing, key=lambda z: z.real)
@@ -303,19 +319,9 @@ def representative(rep, x, kind, params, crit, level):
         arc = _arc(0, R0, a, b)
         verts = _ray_out(rep, x, arc[0], a, level, R0)[::-1] + arc + _ray_out(rep, x, arc[-1], b, level, R0)
         start_logs = None
-    elif kind == "half" and half_line_start(rep, params["point"])[2]:
-        # a ray from k_j itself (integer exponent or ordinary zero of B): f vanishes at a zero of
-        # positive order, so the ray starts 1e-9 of the scale away; at an ordinary zero it starts at k_j
-        j, kj, _ = half_line_start(rep, params["point"])
-        th = _valley(rep, x, params["valley"], j).center
-        d = cmath.exp(1j * th)
-        delta = 0.0 if j is None else 1e-9 * max(1.0, abs(kj))
-        verts = _leg(rep, x, kj, -1 if j is None else j, delta, d, th, level, R0)
-        if j is None:
-            verts = [kj] + verts[1:]
-        start_logs = phase.cut_plane_logs(rep, verts[0])[0] if rep._kj.size else np.zeros(0, complex)
-        if j is not None:
-            start_logs[j] = math.log(abs(verts[0] - kj)) + 1j * _reduce(th, rep.cut_angle)
+    elif kind == "half" and start[2]:
+        # a ray from k_j itself (integer exponent or ordinary zero of B)
+        verts, start_logs = ray_from(rep, x, start[0], start[1], params["valley"], level, R0)
     elif kind in ("loop", "half"):
         j = _singular_index(rep, params["point"])
         kj = rep._kj[j]

@@ -197,7 +197,7 @@ def decompose(rep, contour, x, *, u_stop=40.0, descent=True, exact=False, spiral
                         continue
                     cl += [(ti, sg, m, ("ray", rj)) for sg, m in crossings(rep, verts, logs, arm, orient)]
                     if arm.end == "source" and arm.sink == rj:
-                        sg, m, step = spirals.tail(rep, xg, verts, logs, arm, orient, rj, clear)
+                        sg, m, step = spirals.tail(rep, verts, logs, arm, orient, rj)
                         cl.append((ti, sg, m, ("series", rj, step)))
             for ce, ti, ie in ends:
                 if ce == c:

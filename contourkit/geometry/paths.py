@@ -64,9 +64,8 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
     r_beyond : float for ascent arms: stop at the level only beyond this radius
                      (Re Phi differs between sheets, so a level alone is no bound)
     crit : array     all critical points (for step control)
-    clear : array    for ascent arms: per singular point, the radius of the disc around it that no
-                     representative path enters (spirals.clearances); default 0.25 min(d_j, 0.45)
-                     with d_j the distance to the nearest other singular point
+    clear : array    for ascent arms: per singular point, the distance to the nearest representative
+                     path other than rays from it (spirals.clearances); see _disc_limit
     """
     P = ScalarPhase(rep, x)
     J = P.J
@@ -101,7 +100,6 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
     sink = -1
     wound = False
     turn = None                            # (j, first index, arg) of the turn being watched (ascent arms)
-    lim_of = (lambda j: 0.27 * min(other[j], 0.45)) if clear is None else (lambda j: 0.8 * clear[j])
     u = float(sgn * (P.phi(k, logs) - phi0).real)
     if u <= 0:
         u = du0
@@ -143,18 +141,18 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
             dist, j = P.nearest_singular(k)
             # an arm can only end where the integrand vanishes (descent) or blows up (ascent)
             can = bool(P.ess[j]) or (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
-            if can and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]) and \
-                    (dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j]))
-                     or (ascent and _captured(P, j, dist, other[j], None if clear is None else clear[j]))):
-                end, sink = ("source" if ascent else "sink"), j
-                wound = bool(ascent and _captured(P, j, dist, other[j], None if clear is None else clear[j]))
-                break
+            lim = _disc_limit(other[j], None if clear is None else clear[j])
+            if can and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]):
+                wound = ascent and _captured(P, j, dist, lim)
+                if wound or dist < min(1e-3 * other[j], 0.1 * abs(sigma - P.kj[j])):
+                    end, sink = ("source" if ascent else "sink"), j
+                    break
             if ascent and can and not P.ess[j]:
                 a_now = lg[-1][j].imag
                 if turn is None or turn[0] != j:
                     turn = (j, len(ks) - 1, a_now)
                 elif abs(a_now - turn[2]) >= 2 * math.pi:
-                    if _captured_turn(P, j, ks[turn[1]:], lg[turn[1]:], min(lim_of(j), 0.5 * other[j])):
+                    if _captured_turn(P, j, ks[turn[1]:], lg[turn[1]:], lim):
                         end, sink, wound = "source", j, True
                         break
                     turn = (j, len(ks) - 1, a_now)
@@ -186,6 +184,20 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
                np.array(us), wound)
 
 
+def _disc_limit(other_j, clear_j=None):
+    """Radius of the disc around k_j that the rest of a captured ascent arm may occupy.
+
+    No representative path other than rays from k_j enters it: by default
+    ``0.25 min(d_j, 0.45)`` (paths stay at ``0.3 min(d_j, 0.45)`` or more from
+    every singular point: loop circles, indentations and the bends of legs in
+    contours.py), or 0.8 of the measured clearance ``clear_j``
+    (spirals.clearances); and at most half the distance d_j to the nearest
+    other singular point, so that the rest g of the exponent is analytic in it.
+    """
+    lim = 0.25 * min(other_j, 0.45) if clear_j is None else 0.8 * clear_j
+    return min(lim, 0.5 * other_j)
+
+
 def _captured_turn(P, j, pts, logs, lim):
     """True if an ascent arm that has just wound once around k_j (``pts``) can only wind on into k_j.
 
@@ -198,8 +210,8 @@ def _captured_turn(P, j, pts, logs, lim):
     rho at fixed theta, and one more turn changes h by ``2 pi |Re nu|``
     towards smaller rho.  So at every angle each turn lies strictly inside the
     one before: the rest of the arm stays inside this turn, within radius R,
-    and winds into k_j; the disc holds no critical point.  ``lim`` bounds R:
-    no representative path other than rays from k_j comes that close.
+    and winds into k_j; the disc holds no critical point.  ``lim``
+    (:func:`_disc_limit`) bounds R.
     """
     nu = P.nu[j]
     if nu.real >= 0 or len(pts) < 4:
@@ -219,11 +231,11 @@ def _captured_turn(P, j, pts, logs, lim):
     return 1.25 * M * R < abs(nu.imag)
 
 
-def _captured(P, j, dist, other_j, clear_j=None):
+def _captured(P, j, dist, lim):
     """True if an ascent arm at distance ``dist`` from k_j can only go on into k_j.
 
     Near k_j, ``Phi = nu_j w + g(k)`` with ``w = log(k - k_j)`` and g analytic
-    in the disc of radius ``other_j``; let ``r = dist`` and ``M`` bound
+    in the disc of radius ``lim``; let ``r = dist`` and ``M`` bound
     ``|g'|`` on the disc of radius 2r (the maximum of an analytic function is
     on the circle; sampled at 32 points, with 25% of margin).  Two cases end
     the arm, both for ``Re nu_j < 0``:
@@ -239,16 +251,12 @@ def _captured(P, j, dist, other_j, clear_j=None):
       times before they come within ``1e-3 other_j``.
 
     Both bounds give ``|g'| |k - k_j| < |nu_j|`` on the disc, so it holds no
-    critical point.  The disc of radius 2r (below ``0.25 min(other_j, 0.45)``)
-    holds no vertex of the representative contours, which stay at
-    ``0.3 min(other_j, 0.45)`` or more from every singular point (loop circles,
-    indentations and the bends of legs in contours.py), so the rest of the
-    arm crosses none of them.  With ``clear_j`` (spirals.clearances) the disc
-    may reach 0.8 of that distance, and rays from k_j inside it are crossed on
-    every later turn: spirals.tail sums those crossings.
+    critical point.  The disc of radius 2r stays within ``lim``
+    (:func:`_disc_limit`), so the rest of the arm crosses no representative
+    path there but rays from k_j, which it crosses on every later turn:
+    spirals.tail sums those crossings.
     """
     nu = P.nu[j]
-    lim = 0.25 * min(other_j, 0.45) if clear_j is None else 0.8 * clear_j
     if P.ess[j] or nu.real >= 0 or 2 * dist >= lim:
         return False
     kj = P.kj[j]

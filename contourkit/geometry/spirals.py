@@ -13,7 +13,7 @@ the point where the tracer stops form the geometric series
 ``sum_t exp(2 pi i (m + t s e_j).nu) = exp(2 pi i m.nu) / (1 - exp(2 pi i s nu_j))``
 (``|exp(2 pi i s nu_j)| < 1`` on an ascent path), summed exactly.  The tracer
 may stop as soon as the rest of the arm provably stays in a disc around k_j
-that no other representative path enters (``paths._captured`` with the
+that no other representative path enters (``paths._disc_limit`` with the
 clearance computed here).
 
 Crossing entries of such terms carry a fourth element: ``("ray", j)`` for an
@@ -27,8 +27,6 @@ import numpy as np
 
 from . import contours as C
 from . import phase
-from ._scalar import ScalarPhase
-from .paths import _captured, _other_scale
 from ..errors import AccuracyError
 
 #: loops around branch points with |Im nu| at least this are drawn as rays (spiral_rays=True)
@@ -47,14 +45,9 @@ def is_spiral(rep, kind, params):
 
 
 def ray(rep, x, params, j, crit, level):
-    """The half-line from k_j (1e-9 of the scale away) to the loop's valley, on the loop's sheet."""
-    R0 = C.scales(rep, crit)
-    kj = complex(rep._kj[j])
-    th = C._valley(rep, x, params["valley"], j).center
-    d = cmath.exp(1j * th)
-    verts = C._leg(rep, x, kj, j, 1e-9 * max(1.0, abs(kj)), d, th, level, R0)
-    start = phase.cut_plane_logs(rep, verts[0])[0]
-    start[j] = math.log(abs(verts[0] - kj)) + 1j * (C._reduce(th, rep.cut_angle) + 2 * math.pi * params.get("sheet", 0))
+    """The half-line from k_j to the loop's valley, on the loop's sheet (contours.ray_from)."""
+    verts, start = C.ray_from(rep, x, j, complex(rep._kj[j]), params["valley"], level, C.scales(rep, crit),
+                              params.get("sheet", 0))
     return np.array(verts, dtype=complex), start
 
 
@@ -76,19 +69,17 @@ def clearances(rep, polylines, ray_of):
     return out
 
 
-def tail(rep, x, rverts, rlogs, arm, orient, j, clear):
+def tail(rep, rverts, rlogs, arm, orient, j):
     """The geometric tail of crossings of an ascent arm captured at k_j with the ray from k_j.
 
     Returns ``(sign, m, step)``: the first crossing after the arm's end, its
     sheet shift m, and the change ``step`` of ``m_j`` per turn.  Refuses
     (AccuracyError) unless the rest of the arm provably winds into k_j with a
-    monotone angle inside the clear disc (``paths._captured``).
+    monotone angle inside the clear disc (``arm.wound``: paths._captured,
+    paths._captured_turn).
     """
     kj = complex(rep._kj[j])
-    P = ScalarPhase(rep, x)
-    dist = abs(complex(arm.k[-1]) - kj)
-    if len(arm.k) < 3 or not (arm.wound or _captured(P, j, dist, _other_scale(rep, j),
-                                                      None if clear is None else clear[j])):
+    if len(arm.k) < 3 or not arm.wound:
         raise AccuracyError(f"an ascent path ends at the branch point {kj:.6g} without the guarantee that it "
                             f"winds into it; the crossings with the ray of its loop cannot be summed; move x "
                             f"slightly")
@@ -101,8 +92,7 @@ def tail(rep, x, rverts, rlogs, arm, orient, j, clear):
         raise AccuracyError(f"an ascent path captured at the branch point {kj:.6g} ends on the ray that "
                             f"represents its loop; move x slightly")
     # the other logarithms are single-valued in the disc around k_j: compare them at one point of the ray
-    rho = abs(complex(arm.k[-1]) - kj)
-    p = kj + rho * cmath.exp(1j * ray_arg)
+    p = kj + abs(complex(arm.k[-1]) - kj) * cmath.exp(1j * ray_arg)
     lc = phase.continue_logs(rep, rverts[0], rlogs[0], p)
     lk = phase.continue_logs(rep, arm.k[-1], arm.logs[-1], p)
     m = [int(v) for v in np.round((lc - lk).imag / (2 * math.pi))]
