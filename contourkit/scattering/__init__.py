@@ -16,11 +16,10 @@ from . import smatrix as _smatrix
 from .results import Mode, RowTable, ScatteringResult
 from .smatrix import continuation_ratio, scatter
 from .spectra import Spectrum, spectrum
-from .conversion import scatter_horizonless, scatter_turning_point
+from .conversion import scatter_horizonless
 
 extensions.provide("scatter", scatter)
 # model.spectrum is provided by contourkit.scans (the engine built on .spectra)
-extensions.provide("scatter_turning_point", scatter_turning_point)
 extensions.provide("scatter_horizonless", scatter_horizonless)
 
 __all__ = ["Mode", "RowTable", "ScatteringResult", "Spectrum", "continuation_ratio", "scatter", "spectrum"]

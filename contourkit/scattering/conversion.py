@@ -44,10 +44,8 @@ from ..errors import AccuracyError, InputError, ScatteringError
 from ..geometry.decompose import decompose
 from ..symbolic._sym import exact, exact_expr
 from ..symbolic.symmetric import linearise
-from dataclasses import replace
-
 from .modes import DispersionDerivatives
-from .oriented import map_mode, time_reverse_S
+from .oriented import map_result
 from .results import ScatteringResult
 from .smatrix import _side_constants, in_mode_smatrix
 
@@ -169,12 +167,6 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
         extra={"x_t": xt, "k_t": point.k, "X": X, "airy_length": ell}, convention=getattr(model, "orientation", None))
 
 
-#: (flow direction, side where the blocked wave is real) -> (sk, sx, time reversed) onto the canonical
-#: orientation (flow towards -x, blocked wave real on the -x side)
-_HORIZONLESS = {("-x", "-x"): (1, 1, False), ("-x", "+x"): (1, -1, True),
-                ("+x", "+x"): (-1, -1, False), ("+x", "-x"): (-1, 1, True)}
-
-
 def scatter_horizonless(model, omega, **kw):
     """S-matrix of a horizonless flow by contours at its one dispersive turning point, in the user's x.
 
@@ -183,8 +175,9 @@ def scatter_horizonless(model, omega, **kw):
     amplitudes of the basis span few decades. Every other orientation is
     mapped onto it by parity P (``x -> -x``), time reversal T (complex
     conjugation of the stationary modes: in and out exchanged, norms kept),
-    or both (``model.transformed_flow``), as for horizons
-    (:mod:`contourkit.scattering.oriented`):
+    or both (``model.transformed_flow``; ``Orientation.at_turning_point``),
+    and the result is mapped back as for horizons
+    (:func:`contourkit.scattering.oriented.map_result`):
 
     * P: wavenumbers, positions and group velocities change sign, and the
       sides exchange, because a horizonless flow's exterior is its
@@ -205,6 +198,11 @@ def scatter_horizonless(model, omega, **kw):
     -------
     ScatteringResult
 
+    Raises
+    ------
+    ScatteringError
+        Unless the flow has exactly one dispersive turning point at omega.
+
     Examples
     --------
     >>> import sympy as sp, contourkit as ck
@@ -217,31 +215,22 @@ def scatter_horizonless(model, omega, **kw):
     True
     """
     tps = model.turning_points(omega)
-    o = getattr(model, "orientation", None)
-    sk, sx, tr = _HORIZONLESS[(o.flow if o is not None else "-x", tps[0].real_side)]
-    if (sk, sx, tr) == (1, 1, False):
+    if len(tps) != 1:
+        raise ScatteringError(f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "
+                              f"({', '.join(f'x = {t.x:.6g}' for t in tps) or 'none'}); the contour method "
+                              f"scatters at exactly one; use contourkit.direct.scatter for the full profile")
+    o = model.orientation.at_turning_point(tps[0].real_side)
+    if o.transform == (1, 1):
         return scatter_turning_point(model, omega, tps[0], **kw)
-    can = model.transformed_flow((sk, sx))
+    can = model.transformed_flow(o.transform)
     ctps = can.turning_points(omega)
     if len(ctps) != 1 or ctps[0].real_side != "-x":
-        raise ScatteringError(f"the {'time reverse' if tr else 'mirror image'} of this flow has no single turning "
-                              f"point in the canonical orientation at omega = {omega}; use contourkit.direct.scatter")
-    res = scatter_turning_point(can, omega, ctps[0], **kw)
-    swap = {"exterior": "interior", "interior": "exterior"} if sx == -1 else {}
-
-    def back(m):
-        m = map_mode(m, (sk, sx), tr)
-        return replace(m, side=swap.get(m.side, m.side))
-    if tr:
-        S = time_reverse_S(res.S, [m.norm for m in res.in_modes], [m.norm for m in res.out_modes])
-        ins, outs = [back(m) for m in res.out_modes], [back(m) for m in res.in_modes]
-    else:
-        S, ins, outs = res.S, [back(m) for m in res.in_modes], [back(m) for m in res.out_modes]
-    what = {(1, -1): "mirror image and time reverse", (-1, -1): "mirror image", (-1, 1): "time reverse"}[(sk, sx)]
-    extra = dict(res.extra, x_t=sx * res.extra["x_t"], k_t=sk * res.extra["k_t"], canonical_result=res)
-    out = replace(res, in_modes=ins, out_modes=outs, S=S, extra=extra,
-                  message=res.message + f"; computed for the {what} of the flow and mapped back to the user's x")
-    out.convention = o
+        raise ScatteringError(f"the {'time reverse' if o.time_reversed else 'mirror image'} of this flow has no "
+                              f"single turning point in the canonical orientation at omega = {omega}; use "
+                              f"contourkit.direct.scatter")
+    out = map_result(scatter_turning_point(can, omega, ctps[0], **kw), o)
+    sk, sx = o.transform
+    out.extra.update(x_t=sx * out.extra["x_t"], k_t=sk * out.extra["k_t"])
     return out
 
 

@@ -207,7 +207,7 @@ def _branch_constant(rep, geom, i, b, dd, dps):
     t = geom.thimbles[i]
     x = geom.x
     kb0 = rep._kj[b]
-    theta = math.pi / 2 if local_side(rep._nu[b], t.sigma - kb0) > 0 else -math.pi / 2
+    theta = loop_entry(rep._nu[b], t.sigma - kb0)
     r0 = abs(t.sigma - kb0)
 
     def local_arg(arm):
@@ -240,7 +240,7 @@ def _branch_constant(rep, geom, i, b, dd, dps):
                                       f"encircle it (winding {m_out - m_in}); the geometry at "
                                       f"x = {x} is not asymptotic yet")
             loop = (m_in, m_out - m_in)
-            return branch_constant_at(data, b, sig, ls, ds1, x, loop), loop
+            return branch_constant_at(data, b, sig, ls, ds1, loop), loop
         # saddle-point estimate of the same thimble at x: |I| sqrt(2 pi |dD/dk|)
         xm = mpmath.mpf(x)
         Phi = phase.phi_mp(data, xm, sig, ls)
@@ -250,7 +250,7 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         cands = []
         for m_in in range(m0 - 2, m0 + 3):
             for n in (1, -1):
-                c = branch_constant_at(data, b, sig, ls, ds1, x, (m_in, n))
+                c = branch_constant_at(data, b, sig, ls, ds1, (m_in, n))
                 cands.append((abs(float(mpmath.log(c ** 2 / est))), c, (m_in, n)))
         cands.sort(key=lambda c: c[0])
         # (m, +2 pi) and (m + 1, -2 pi) are the same loop: keep distinct values only
@@ -265,8 +265,8 @@ def _branch_constant(rep, geom, i, b, dd, dps):
         return cands[0][1], cands[0][2]
 
 
-def local_side(nu, z):
-    """The sign that sets the valley of the Hankel loop at a branch point: Im a, ``a = -nu / z``.
+def loop_entry(nu, z):
+    """The valley direction theta = +-pi/2 of the Hankel loop at a branch point, from its saddle.
 
     Near k_b the integrand is ``z^nu e^{a z}`` with ``a = i x + g'(k_b)``
     (g the rest of the exponent); the saddle sits at ``z = -nu / a``.  The loop
@@ -274,16 +274,16 @@ def local_side(nu, z):
     Far out ``a ~ i x`` and this is the sign of x; close in, ``g'(k_b)`` (large
     where the exponents are, as at slowly varying turning points) can set it.
     """
-    return (-nu / z).imag
+    return math.pi / 2 if (-complex(nu) / complex(z)).imag > 0 else -math.pi / 2
 
 
-def branch_constant_at(data, b, sig, ls, ds1, x, loop):
+def branch_constant_at(data, b, sig, ls, ds1, loop):
     """Flux constant of the Hankel loop at singular point b (module docstring), in mpmath.
 
     data : (Q, kj, nu, ess) at the working precision; sig, ls : a point near
-    k_b and the logs there (the sheet); ds1 : |sigma1'(k_b)|; x : position
-    (unused: the valley direction theta = +-pi/2 follows from the saddle, :func:`local_side`); loop : (m_in, n)
-    with entry argument alpha = theta + 2 pi m_in and winding Delta = 2 pi n.
+    k_b and the logs there (the sheet); ds1 : |sigma1'(k_b)|; loop : (m_in, n)
+    with entry argument alpha = theta + 2 pi m_in and winding Delta = 2 pi n, the
+    valley direction theta = +-pi/2 from the saddle (:func:`loop_entry`).
     """
     Q, kjm, num, ess = data
     nu, kb = num[b], kjm[b]
@@ -296,8 +296,7 @@ def branch_constant_at(data, b, sig, ls, ds1, x, loop):
         for p, c in enumerate(ess[j], start=1):
             logh += c * (kb - kjm[j]) ** (-p)
     pref = 2 * mpmath.pi * ds1 * mpmath.exp(2 * mpmath.re(logh)) * abs(mpmath.gamma(nu + 1)) ** 2
-    side = local_side(complex(nu), complex(sig - kb))
-    alpha = (mpmath.pi / 2 if side > 0 else -mpmath.pi / 2) + 2 * mpmath.pi * loop[0]
+    alpha = (mpmath.pi / 2 if loop_entry(nu, sig - kb) > 0 else -mpmath.pi / 2) + 2 * mpmath.pi * loop[0]
     c2 = pref * mpmath.exp(-2 * mpmath.im(nu) * alpha) * abs(mpmath.expj(2 * mpmath.pi * nu * loop[1]) - 1) ** 2
     return mpmath.sqrt(c2)
 

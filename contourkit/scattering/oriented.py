@@ -104,18 +104,29 @@ def oriented_figures(S, in_modes, out_modes, omega, kappa, orientation):
 
 
 def map_result(res, orientation):
-    """The canonical model's ScatteringResult in the user's orientation."""
+    """The canonical model's ScatteringResult in the user's orientation.
+
+    For a horizonless flow (``orientation.hole == "none"``, transform from
+    ``Orientation.at_turning_point``) the sides are the flow's x -> +-infinity
+    ends in the user's x, so parity also exchanges exterior and interior.
+    """
     tr = orientation.time_reversed
     tf = orientation.transform
+    horizonless = orientation.hole == "none"
+    swap = {"exterior": "interior", "interior": "exterior"} if horizonless and orientation.parity else {}
+
+    def user(m):
+        m = map_mode(m, tf, tr)
+        return replace(m, side=swap.get(m.side, m.side)) if swap else m
     if tr:
         eta_in = [m.norm for m in res.in_modes]
         eta_out = [m.norm for m in res.out_modes]
         S = time_reverse_S(res.S, eta_in, eta_out)
-        ins = [map_mode(m, tf, True) for m in res.out_modes]
-        outs = [map_mode(m, tf, True) for m in res.in_modes]
+        ins = [user(m) for m in res.out_modes]
+        outs = [user(m) for m in res.in_modes]
         others = {f"{j}:{outs[j].name}": complex(S[j, res.hawking_index]) for j in range(len(outs))} \
             if res.hawking_index is not None else {}
-        extra = dict(res.extra, hawking_channel_of_S="column")
+        extra = dict(res.extra) if horizonless else dict(res.extra, hawking_channel_of_S="column")
         if "S_mp" in extra:
             Smp = np.array(extra["S_mp"], dtype=object)
             extra["S_mp"] = time_reverse_S(Smp, eta_in, eta_out).tolist()
@@ -124,12 +135,15 @@ def map_result(res, orientation):
                "Hawking channel is the long-wavelength in-mode (column hawking_index)")
     else:
         S = res.S
-        ins = [map_mode(m, tf, False) for m in res.in_modes]
-        outs = [map_mode(m, tf, False) for m in res.out_modes]
+        ins = [user(m) for m in res.in_modes]
+        outs = [user(m) for m in res.out_modes]
         others = dict(res.others)
         extra = dict(res.extra)
         beta = res.beta
         msg = res.message + "; mirror image (x -> -x) of the canonical black hole"
+    if horizonless:
+        what = {(1, -1): "mirror image and time reverse", (-1, -1): "mirror image", (-1, 1): "time reverse"}[tf]
+        msg = res.message + f"; computed for the {what} of the flow and mapped back to the user's x"
     extra["canonical_result"] = res
     out = replace(res, in_modes=ins, out_modes=outs, S=S, others=others, beta=beta, message=msg, extra=extra)
     out.convention = orientation

@@ -261,7 +261,7 @@ def side_constants(frame, side, terms, dps):
                 ls = phase.to_mp_logs(side.logs[md.index], data, sm, s)
                 if md.branch >= 0:
                     ds1 = abs(frame.ds1(data[1][md.branch]))
-                    c = branch_constant_at(data, md.branch, sm, ls, ds1, side.X, md.loop)
+                    c = branch_constant_at(data, md.branch, sm, ls, ds1, md.loop)
                 else:
                     c = saddle_constant_at(data, frame._coeffs()[1], sm, ls)
             mods.append(ModeData(md.index, md.mode, c, md.branch, loop=md.loop, far=md.far))

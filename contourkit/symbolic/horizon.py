@@ -39,7 +39,7 @@ import sympy as sp
 
 from . import extensions
 from ._sym import KS, OMEGA, I, exact, exact_expr
-from ..errors import ContourkitWarning, HorizonError, InputError, ModelError, ScatteringError
+from ..errors import ContourkitWarning, HorizonError, InputError, ModelError
 from .equation import ModeEquation, ode_coefficients
 from .orientation import Orientation, transformed_model
 from .profilesubs import (_align, _normalise_parameters, _profile_substitutions, _short, _symbolic_source,
@@ -455,15 +455,9 @@ class HorizonModel:
         """Near-horizon S-matrix at one frequency; see :func:`contourkit.scattering.smatrix.scatter`.
 
         A horizonless flow scatters at its dispersive turning point instead
-        (:func:`contourkit.scattering.conversion.scatter_turning_point`); it must have exactly one.
+        (:func:`contourkit.scattering.conversion.scatter_horizonless`); it must have exactly one.
         """
         if self.horizon is None:
-            tps = self.turning_points(omega)
-            if len(tps) != 1:
-                raise ScatteringError(
-                    f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "
-                    f"({', '.join(f'x = {t.x:.6g}' for t in tps) or 'none'}); the contour method scatters at "
-                    f"exactly one; use contourkit.direct.scatter for the full profile")
             return extensions.call("scatter_horizonless", self, omega, **kw)
         return extensions.call("scatter", self, omega, **kw)
 

@@ -44,7 +44,7 @@ Examples
 >>> o.hole, o.flow, o.subsonic_side, o.transform
 ('white', '-x', '-x', (1, -1))
 """
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import sympy as sp
 
@@ -96,6 +96,18 @@ class Orientation:
     def horizonless(cls, flow, note=""):
         return cls(hole="none", flow="+x" if flow > 0 else "-x", subsonic_side="both",
                    upstream_side="-x" if flow > 0 else "+x", slope=0.0, transform=(1, 1), note=note)
+
+    def at_turning_point(self, real_side):
+        """A horizonless flow's orientation with the transform onto the one the contour method uses.
+
+        At a dispersive turning point the contour method works for a flow towards
+        -x whose blocked wave is real on the -x side (``real_side``), like a black
+        hole's subsonic exterior; the transform is the table's, with "black"
+        where the blocked wave lives on the side the flow goes to and "white"
+        where it lives upstream.
+        """
+        hole = "black" if real_side == self.flow else "white"
+        return replace(self, transform=_TRANSFORMS[(hole, 1 if self.flow == "+x" else -1)])
 
     @property
     def canonical(self):

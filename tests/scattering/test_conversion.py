@@ -81,7 +81,7 @@ def test_turning_point_slowly_varying(L, om):
     # omega = 0.29 lies near the top of the blocking band (one turning point for omega from about 0.25
     # to 0.295 at L = 20, measured): there the loop of
     # the long-wavelength mode at x_t - X enters from above, set by the rest of the exponent
-    # (modes.local_side), not by the sign of x
+    # (modes.loop_entry), not by the sign of x
     rc, rd = _compare(L, om=om)
     # the anomalous |beta|^2 is exponentially small in the slowly varying regime (fact of the trade,
     # from memory); the direct solver's, measured: 3e-11 at L = 5, 6e-21 at L = 10, and from L = 20 on
