@@ -121,13 +121,17 @@ def blocked_mode_figures(res):
 
 
 def _matched(ra, rb):
-    """Largest difference of |S| entries of two results, modes matched by side, direction, norm and Re k."""
+    """Largest difference of |S| entries of two results, modes matched by side, direction, norm and Re k.
+
+    None when the two have different mode content.
+    """
     def order(modes):
-        keys = [(m.side, m.direction, m.norm) for m in modes]
-        return sorted(range(len(modes)), key=lambda i: (keys[i], modes[i].k.real))
-    if ([(m.side, m.direction, m.norm) for m in sorted(ra.in_modes, key=lambda m: (m.side, m.direction, m.norm))]
-            != [(m.side, m.direction, m.norm) for m in sorted(rb.in_modes, key=lambda m: (m.side, m.direction, m.norm))]
-            or len(ra.out_modes) != len(rb.out_modes)):
+        return sorted(range(len(modes)), key=lambda i: (modes[i].side, modes[i].direction, modes[i].norm,
+                                                        modes[i].k.real))
+
+    def content(modes):
+        return sorted((m.side, m.direction, m.norm) for m in modes)
+    if content(ra.in_modes) != content(rb.in_modes) or content(ra.out_modes) != content(rb.out_modes):
         return None
     ia, ib, oa, ob = order(ra.in_modes), order(rb.in_modes), order(ra.out_modes), order(rb.out_modes)
     return float(max(abs(abs(ra.S[oa[o], ia[j]]) - abs(rb.S[ob[o], ib[j]]))
