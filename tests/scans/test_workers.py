@@ -56,7 +56,7 @@ def _free_port():
 @pytest.mark.skipif(not sys.platform.startswith("linux"), reason="reads /proc")
 def test_workers_do_not_outlive_a_killed_parent(tmp_path):
     out = tmp_path / "run.csv"
-    proc = subprocess.Popen([sys.executable, "-m", "contourkit", "spectrum", SUPER, "--points", "64", "--digits",
+    proc = subprocess.Popen([sys.executable, "-m", "contourkit", "spectrum", SUPER, "--points", "256", "--digits",
                              "20", "--workers", "2", "--quiet", "--out", out], env=_env(),
                             stdout=subprocess.PIPE, stderr=subprocess.PIPE)
     workers = set()
