@@ -29,3 +29,43 @@ def airy(airy_rep):
 @pytest.fixture(scope="session")
 def bessel(bessel_rep):
     return bessel_rep
+
+
+def _interrupt_scan(cmd, out, *, rows, total, sig, env, attempts=4):
+    """Start the scan ``cmd`` and send it ``sig`` once ``out`` holds ``rows`` rows.
+
+    Returns (returncode, stderr, rows left in the file).  Rows that follow the
+    geometry in omega take milliseconds, so on a loaded machine the signal can
+    come after the last row: then the file is dropped and the scan started
+    again, up to ``attempts`` times.
+    """
+    import signal as _signal
+    import subprocess
+    import time
+
+    for _ in range(attempts):
+        out.unlink(missing_ok=True)
+        proc = subprocess.Popen(cmd, env=env, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
+        try:
+            deadline = time.monotonic() + 200
+            while time.monotonic() < deadline and proc.poll() is None:
+                if out.exists() and out.read_bytes().count(b"\n") >= rows + 2:   # fingerprint, header, rows
+                    break
+                time.sleep(0.005)
+            if proc.poll() is None:
+                proc.send_signal(sig)
+            _, err = proc.communicate(timeout=60)
+        finally:
+            if proc.poll() is None:
+                proc.send_signal(_signal.SIGKILL)
+                proc.wait()
+        left = out.read_bytes().count(b"\n") - 2 if out.exists() else 0
+        if left < total:
+            return proc.returncode, err, left
+    pytest.fail(f"the scan finished before it could be interrupted, {attempts} times")
+
+
+@pytest.fixture
+def interrupt_scan():
+    """The function that starts a scan and interrupts it after some rows (see _interrupt_scan)."""
+    return _interrupt_scan

@@ -10,7 +10,6 @@ import pathlib
 import signal
 import subprocess
 import sys
-import time
 
 import pytest
 
@@ -47,35 +46,16 @@ def reference(tmp_path_factory):
     return ref
 
 
-def _interrupt(out, sig, rows=13):
-    proc = subprocess.Popen(_cli("spectrum", SUPER, *GRID, "--quiet", "--workers", "1", "--out", out),
-                            env=_env(), stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
-    try:
-        deadline = time.monotonic() + 200
-        while time.monotonic() < deadline and proc.poll() is None:
-            if out.exists() and out.read_bytes().count(b"\n") >= rows + 2:     # fingerprint, header, rows
-                break
-            time.sleep(0.005)
-        assert proc.poll() is None, "the run finished before it could be interrupted"
-        proc.send_signal(sig)
-        _, err = proc.communicate(timeout=60)
-    finally:
-        if proc.poll() is None:
-            proc.kill()
-            proc.wait()
-    return proc.returncode, err
-
-
 @pytest.mark.parametrize("sig", [signal.SIGINT, signal.SIGKILL], ids=["SIGINT", "SIGKILL"])
-def test_interrupted_then_resumed_equals_uninterrupted(tmp_path, reference, sig):
+def test_interrupted_then_resumed_equals_uninterrupted(tmp_path, reference, sig, interrupt_scan):
     out = tmp_path / "run.csv"
-    code, err = _interrupt(out, sig)
+    code, err, partial = interrupt_scan(_cli("spectrum", SUPER, *GRID, "--quiet", "--workers", "1", "--out", out),
+                                        out, rows=13, total=40, sig=sig, env=_env())
     if sig == signal.SIGINT:
         assert code == 130 and len(err.strip().splitlines()) == 1 and "Traceback" not in err, err
         assert "interrupted" in err
     else:
         assert code == -signal.SIGKILL
-    partial = out.read_bytes().count(b"\n") - 2
     assert 13 <= partial < 40
     again = run("spectrum", SUPER, *GRID, "--quiet", "--workers", "1", "--out", out)
     assert again.returncode == 0, again.stderr

@@ -10,7 +10,6 @@ import pathlib
 import signal
 import subprocess
 import sys
-import time
 
 import pytest
 
@@ -113,33 +112,7 @@ def test_record_errors_keeps_going(tmp_path):
     assert len(read_table(tmp_path / "t.csv")) == 2
 
 
-def _start_and_kill(cmd, out, rows):
-    """Start a scan and SIGKILL it once the file holds two rows; returns the rows left in the file.
-
-    Rows that follow the geometry in omega take milliseconds, so the kill can come too late on a
-    loaded machine (the scan already done): then the file is dropped and the run tried again.
-    """
-    for _attempt in range(4):
-        out.unlink(missing_ok=True)
-        proc = subprocess.Popen(cmd, env=_env(), stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
-        try:
-            deadline = time.monotonic() + 120
-            while time.monotonic() < deadline and proc.poll() is None:
-                if out.exists() and out.read_bytes().count(b"\n") >= 4:     # fingerprint, header + 2 rows
-                    break
-                time.sleep(0.01)
-            proc.send_signal(signal.SIGKILL)
-            proc.wait(timeout=30)
-        finally:
-            if proc.poll() is None:
-                proc.kill()
-        partial = out.read_bytes().count(b"\n") - 2
-        if partial < rows:
-            return partial
-    pytest.fail("the scan finished before it could be killed, four times")
-
-
-def test_kill_and_resume(tmp_path):
+def test_kill_and_resume(tmp_path, interrupt_scan):
     """SIGKILL a scan after two rows; the re-run completes a file equal to an uninterrupted one.
 
     48 rows in blocks of 12: the resumed run restarts the following at the start of the block that
@@ -152,7 +125,9 @@ def test_kill_and_resume(tmp_path):
                           text=True, timeout=240)
     assert done.returncode == 0, done.stderr
     out = tmp_path / "killed.csv"
-    partial = _start_and_kill(_cli(*args, "--out", out, "--workers", "1"), out, n)
+    code, _, partial = interrupt_scan(_cli(*args, "--out", out, "--workers", "1"), out, rows=2, total=n,
+                                      sig=signal.SIGKILL, env=_env())
+    assert code == -signal.SIGKILL
     assert 2 <= partial < n
     again = subprocess.run(_cli(*args, "--out", out, "--workers", "1"), env=_env(), capture_output=True,
                            text=True, timeout=240)
