@@ -44,7 +44,10 @@ def _arm_nodes(rep, arm, sign):
         tau, wl = _LAG
         wj = le[j] - tau / (nu + 1)
         nodes = kj + np.exp(wj)
-        lg = phase.continue_logs(rep, ke, le, nodes)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            # far down the tail exp(wj) underflows and the node is k_j itself: its own log is wj (set
+            # below), the log(0) of that column is never used
+            lg = phase.continue_logs(rep, ke, le, nodes)
         lg[:, j] = wj
         E = phase.phi(rep, 0.0, nodes, lg) + wj + tau
         W = sign * wl * (-1.0 / (nu + 1))

@@ -247,11 +247,12 @@ def integrate(rep, contour, x, *, derivative=0, dps=None, rtol=None):
             if ps.real > 700:
                 raise ContourError(f"the integral at x = {x} exceeds the double-precision range "
                                    f"(|integrand| ~ e^{ps.real:.0f}); use dps=... for mpmath")
-            fac = n_sig * np.exp(ps)
-            contrib = fac * (Ip - Im)
-            total += contrib
-            scale = max(scale, abs(contrib))
-            err += abs(fac) * (ep + em)
+            with np.errstate(over="ignore", invalid="ignore"):      # not finite: refused below
+                fac = n_sig * np.exp(ps)
+                contrib = fac * (Ip - Im)
+                total += contrib
+                scale = max(scale, abs(contrib))
+                err += abs(fac) * (ep + em)
         err += math.exp(-u_stop) * scale * 10
         value = total
         if not (cmath.isfinite(value) and math.isfinite(err)):
