@@ -11,7 +11,9 @@ A :class:`Contour` is a formal linear combination of elementary contours:
 * ``Contour.loop(point, valley=None)``: from a valley around the singular
   point and back to the same valley, counter-clockwise (a Hankel loop);
 * ``Contour.half_line(point, valley=None)``: from the branch point to the
-  valley (``Re nu > -1``), equal to ``loop / (exp(2 pi i nu) - 1)``;
+  valley (``Re nu > -1``), equal to ``loop / (exp(2 pi i nu) - 1)``; from an
+  essential singular point it leaves through the local valley ``sector``
+  (``Singularity.valleys``), where ``exp(c_p (k - k_j)^-p)`` vanishes;
 * ``Contour.segment(p, q, valley=None)``: the straight segment between two
   branch points, as ``half_line(p) - half_line(q)``.
 
@@ -118,8 +120,21 @@ class Contour:
                    f"loop around {point} from valley {valley}" + (f", sheet {sheet}" if sheet else ""))
 
     @classmethod
-    def half_line(cls, point, valley=None):
-        return cls([(1, "half", {"point": point, "valley": valley})], f"half-line from {point} to valley {valley}")
+    def half_line(cls, point, valley=None, *, sector=0):
+        """From a singular point (or an ordinary zero of B) to a valley at infinity.
+
+        ``sector`` numbers the local valley through which the path leaves an
+        essential singular point (``rep.singularities[j].valleys``); it is
+        ignored elsewhere.
+        """
+        if isinstance(sector, bool) or not isinstance(sector, (int, np.integer)) or sector < 0:
+            raise ContourError(f"sector must be a non-negative integer (a local valley of an essential singular "
+                               f"point, see Singularity.valleys), got {sector!r}")
+        params = {"point": point, "valley": valley}
+        if sector:
+            params["sector"] = int(sector)
+        return cls([(1, "half", params)], f"half-line from {point}" + (f" (sector {sector})" if sector else "")
+                   + f" to valley {valley}")
 
     @classmethod
     def segment(cls, p, q, valley=None):
@@ -151,7 +166,8 @@ def half_line_start(rep, point):
     ``j`` is None for an ordinary zero of B (``rep.ordinary_zeros``, exponent
     0).  ``straight`` is True where the half-line is represented by itself (a
     ray from k_j), not by the loop ``/ (exp(2 pi i nu) - 1)``: at an integer
-    exponent the loop vanishes.
+    exponent the loop vanishes, and around an essential singular point the
+    loop cannot be shrunk onto the half-line.
     """
     for z in getattr(rep, "ordinary_zeros", ()):
         try:
@@ -162,7 +178,7 @@ def half_line_start(rep, point):
             return None, complex(z), True
     j = _singular_index(rep, point)
     # an integer exponent (Singularity.kind): f is single-valued around k_j; a pole's half-line is refused later
-    return j, complex(rep._kj[j]), rep.singularities[j].kind in ("zero", "pole")
+    return j, complex(rep._kj[j]), rep.singularities[j].kind in ("zero", "pole", "essential")
 
 
 def _valley(rep, x, valley, j=None):
@@ -257,16 +273,22 @@ def _leg(rep, x, kj, j, r, d, th, level, R0):
     return pts + _ray_out(rep, x, start + 1e-3 * R0 * d, th, level, R0)
 
 
-def ray_from(rep, x, j, kj, valley, level, R0, sheet=0):
+def ray_from(rep, x, j, kj, valley, level, R0, sheet=0, sector=0):
     """A half-line drawn as itself: the ray from k_j to the valley, (vertices, logs at the first one).
 
     ``j`` is the singular index of k_j, or None for an ordinary zero of B.
     At a singular point the ray starts 1e-9 of the scale away from it (the
     integrand vanishes or is integrable there), with ``arg(k - k_j)`` on the
     cut-plane branch plus ``2 pi sheet``; at an ordinary zero it starts at k_j.
+    From an essential singular point see :func:`_essential_exit`.
     """
     th = _valley(rep, x, valley, j).center
     d = cmath.exp(1j * th)
+    if j is not None and rep.singularities[j].kind == "essential":
+        verts, ths = _essential_exit(rep, x, j, kj, sector, th, level, R0)
+        start_logs = phase.cut_plane_logs(rep, verts[0])[0]
+        start_logs[j] = math.log(abs(verts[0] - kj)) + 1j * (_reduce(ths, rep.cut_angle) + 2 * math.pi * sheet)
+        return verts, start_logs
     delta = 0.0 if j is None else 1e-9 * max(1.0, abs(kj))
     verts = _leg(rep, x, kj, -1 if j is None else j, delta, d, th, level, R0)
     if j is None:
@@ -275,6 +297,38 @@ def ray_from(rep, x, j, kj, valley, level, R0, sheet=0):
     if j is not None:
         start_logs[j] = math.log(abs(verts[0] - kj)) + 1j * (_reduce(th, rep.cut_angle) + 2 * math.pi * sheet)
     return verts, start_logs
+
+
+def _essential_exit(rep, x, j, kj, sector, th, level, R0):
+    """The path out of the essential singular point k_j through its local valley ``sector``.
+
+    It starts on the sector's centre line where Re Phi is below ``level`` (the
+    integrand is negligible there and vanishes towards k_j), runs out along
+    that line to the radius r of a loop, turns along the circle of radius r
+    the short way to the direction ``th`` of the valley at infinity and
+    leaves along it (bent around singular points, see :func:`_leg`).
+    Returns (vertices, direction of the start).
+    """
+    vs = rep.singularities[j].valleys
+    if isinstance(sector, bool) or not isinstance(sector, (int, np.integer)) or not 0 <= sector < len(vs):
+        raise ContourError(f"unknown sector {sector!r}: the essential singular point {rep.singularities[j].point} "
+                           f"has {len(vs)} local valley(s), numbered 0..{len(vs) - 1} (Singularity.valleys)")
+    ths = vs[sector].center
+    e = cmath.exp(1j * ths)
+    others = [abs(kj - p) for p in list(rep._kj) if abs(kj - p) > 1e-12]
+    r = 0.3 * min(others + [1.0, 0.3 * R0])
+    delta = r
+    for _ in range(200):
+        p = kj + delta * e
+        if phase.phi(rep, x, p, phase.cut_plane_logs(rep, p)[0]).real < level or delta < 1e-250:
+            break
+        delta *= 0.5
+    n = max(2, int(math.ceil(math.log(r / delta) / 0.2)) + 1)
+    radial = [kj + t * e for t in np.geomspace(delta, r, n)]
+    turn = (th - ths + math.pi) % (2 * math.pi) - math.pi
+    arc = _arc(kj, r, ths, ths + turn) if abs(turn) > 1e-12 else [kj + r * e]
+    far = _leg(rep, x, kj, j, r, cmath.exp(1j * th), th, level, R0)
+    return radial + arc[1:] + far[1:], ths
 
 
 def representative(rep, x, kind, params, crit, level):
@@ -321,7 +375,8 @@ def representative(rep, x, kind, params, crit, level):
         start_logs = None
     elif kind == "half" and start[2]:
         # a ray from k_j itself (integer exponent or ordinary zero of B)
-        verts, start_logs = ray_from(rep, x, start[0], start[1], params["valley"], level, R0)
+        verts, start_logs = ray_from(rep, x, start[0], start[1], params["valley"], level, R0,
+                                     sector=params.get("sector", 0))
     elif kind in ("loop", "half"):
         j = _singular_index(rep, params["point"])
         kj = rep._kj[j]
@@ -381,8 +436,9 @@ def basis(rep, *, x=1.0):
     Valley-to-valley contours between consecutive valleys (on the arc that
     does not cross the cut direction: counter-clockwise unless that arc would),
     one loop around every branch point, pole and essential singularity, from
-    the default valley, and a half-line from every zero of B with an exponent
-    that is a non-negative integer (where the loop vanishes).  For deg Q <= 1 the valley depends on the sign of
+    the default valley, a half-line from every zero of B with an exponent
+    that is a non-negative integer (where the loop vanishes), and a
+    half-line out of every local valley of an essential singular point.  For deg Q <= 1 the valley depends on the sign of
     x: the basis is for the side of x given (default x > 0).
 
     Raises
@@ -396,6 +452,8 @@ def basis(rep, *, x=1.0):
             out.append(Contour.loop(s.point))
         elif s.kind == "zero":                 # integer exponent >= 1: the loop vanishes, the ray does not
             out.append(Contour.half_line(s.point))
+        for m in range(len(s.valleys)):        # essential: the integrand vanishes into each local valley
+            out.append(Contour.half_line(s.point, sector=m))
     for z in getattr(rep, "ordinary_zeros", ()):
         out.append(Contour.half_line(z))        # exponent 0: f is analytic there, B f vanishes
     if len(out) != rep.order:

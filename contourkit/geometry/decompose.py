@@ -254,7 +254,7 @@ def _representatives(rep, contour, xg, crit, level, spiral_rays=False):
         verts, slog = C.representative(rep, xg, kind, params, crit, level)
         logs = C.polyline_logs(rep, verts, slog)
         j = C.half_line_start(rep, params["point"])[0] if kind == "half" else None
-        if j is not None:
+        if j is not None and rep.singularities[j].kind != "essential":
             nu = rep._nu[j]
             if nu.real <= -1:
                 raise ContourError(f"a half-line from {rep.singularities[j].point} needs Re(exponent) > -1 "

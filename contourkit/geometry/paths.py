@@ -139,8 +139,11 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
             break
         if J:
             dist, j = P.nearest_singular(k)
-            # an arm can only end where the integrand vanishes (descent) or blows up (ascent)
-            can = bool(P.ess[j]) or (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
+            # an arm can only end where the integrand vanishes (descent) or blows up (ascent); a descent
+            # arm into an essential singular point is traced on until u_stop (the integrand vanishes
+            # faster than any power there: it ends as in a valley, with no power-law tail)
+            can = (bool(P.ess[j]) and ascent) or (P.nu[j].real < 0 if ascent else
+                                                  (P.nu[j].real > 0 and not P.ess[j]))
             lim = _disc_limit(other[j], None if clear is None else clear[j])
             if can and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]):
                 wound = ascent and _captured(P, j, dist, lim)

@@ -88,6 +88,10 @@ class Singularity:
     exponent : sympy number (nu_j, the residue of E')
     essential : list of sympy numbers (c_1, c_2, ...), empty if none
     kind : {"branch point", "pole", "zero", "regular", "essential"}
+    valleys : list of Valley
+        At an essential singular point with leading term ``c_p (k - k_j)^-p``:
+        the p sectors ``|arg(k - k_j) - center| < pi/(2p)`` in which that
+        factor decays as k -> k_j (contours may end there); empty otherwise.
     """
 
     def __init__(self, point, exponent, essential=()):
@@ -97,8 +101,15 @@ class Singularity:
         nu = complex(sp.N(exponent, 30))
         self.nu = nu
         self.k = complex(sp.N(point, 30))
+        self.valleys = []
         if self.essential:
             self.kind = "essential"
+            cs = [complex(sp.N(c, 30)) for c in self.essential]
+            p = max(m for m, c in enumerate(cs, start=1) if c != 0)
+            c = cs[p - 1]
+            # Re(c e^{-i p theta}) < 0 around arg c - p theta = pi (mod 2 pi)
+            self.valleys = [Valley(m, (cmath.phase(c) - math.pi + 2 * math.pi * m) / p, math.pi / (2 * p))
+                            for m in range(p)]
         elif abs(nu.imag) < 1e-14 and abs(nu.real - round(nu.real)) < 1e-14:
             n = round(nu.real)
             self.kind = "pole" if n < 0 else ("zero" if n > 0 else "regular")

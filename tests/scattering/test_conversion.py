@@ -147,3 +147,24 @@ def test_turning_point_sextic_counter_current(om):
     assert len(rc.in_modes) == len(rd.in_modes) == 5
     assert rc.unitarity_residual <= 1e-8 and rd.unitarity_residual <= 1e-8
     assert _matched(rc, rd) < 1e-5                           # measured 3e-8
+
+
+@pytest.mark.parametrize("L, om", [(25, 0.25), (60, 0.31)])
+def test_turning_point_varying_wave_speed_only(L, om):
+    """A uniform current over a varying wave speed c(x) (a shoal of our own): dD/dx = -2 c c' k^2 has a
+    double zero at k = 0, an essential singular point of the k-space solution.  Its half-line (into
+    the local valley at k = 0) completes the basis; contour against the direct solver entry by entry,
+    pseudo-unitarity in both, total reflection of the blocked wave (common practice)."""
+    from contourkit.profiles.comparison import _matched, blocked_mode_figures
+    c = 1 - sp.Rational(3, 50) * sp.tanh(x / L)
+    m = ck.HorizonModel.from_dispersion((w + sp.Rational(9, 25) * k) ** 2 - c ** 2 * k ** 2 + k ** 4, omega=w, k=k,
+                                        x=x, horizon="none", window=(-50 * L, 50 * L))
+    rep = m.mode_equation(om, at=m.turning_points(om)[0].x).fourier()
+    assert [s.kind for s in rep.singularities] == ["essential"] and len(rep.basis()) == 4
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", CoalescenceWarning)
+        rc = m.scatter(om)
+    rd = ck.direct.scatter(m, om)
+    assert rc.unitarity_residual <= 1e-8 and rd.unitarity_residual <= 1e-8
+    assert _matched(rc, rd) < 1e-5                           # measured 1e-10 (L = 25) and 5e-12 (L = 60)
+    assert abs(blocked_mode_figures(rc)[0] - 1) < 1e-8 and abs(blocked_mode_figures(rd)[0] - 1) < 1e-8
