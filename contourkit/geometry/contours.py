@@ -126,6 +126,19 @@ class Contour:
         ``sector`` numbers the local valley through which the path leaves an
         essential singular point (``rep.singularities[j].valleys``); it is
         ignored elsewhere.
+
+        Examples
+        --------
+        ``x y'' + y = 0``: B = k^2, so f = k^-2 exp(i/k) has an essential
+        singular point at 0, with one local valley (below it).
+
+        >>> import sympy as sp, contourkit as ck
+        >>> x, y = sp.Symbol("x"), sp.Function("y")
+        >>> rep = ck.ModeEquation.from_ode(x * y(x).diff(x, 2) + y(x), y, x).fourier()
+        >>> rep.singularities[0].kind, len(rep.singularities[0].valleys)
+        ('essential', 1)
+        >>> rep.basis()
+        [Contour(loop around 0 from valley None), Contour(half-line from 0 to valley None)]
         """
         if isinstance(sector, bool) or not isinstance(sector, (int, np.integer)) or sector < 0:
             raise ContourError(f"sector must be a non-negative integer (a local valley of an essential singular "

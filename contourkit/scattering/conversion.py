@@ -47,7 +47,8 @@ from ..symbolic.symmetric import linearise
 from .modes import DispersionDerivatives
 from .oriented import map_result
 from .results import ScatteringResult
-from .smatrix import _side_constants, in_mode_smatrix
+from .sides import _side_constants
+from .smatrix import in_mode_smatrix
 
 
 #: the largest working precision the turning-point S-matrix escalates to

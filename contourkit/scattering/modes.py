@@ -162,7 +162,8 @@ def catalogue(rep, geom, dd, *, dps, branch_radius=0.1, label_x=None):
             others = np.abs(kj - kj[j])
             others = others[others > 0]
             scale = float(np.min(others)) if others.size else max(1.0, abs(kj[j]))
-            if d[j] < branch_radius * scale:
+            # next to an essential singular point the critical points are saddle modes (p + 1 of them)
+            if d[j] < branch_radius * scale and rep.singularities[j].kind != "essential":
                 b = j
         if b >= 0:
             kb = kj[b]

@@ -103,3 +103,11 @@ def test_thirty_digits():
         for fn in _references(0, 1):
             c = mpmath.lu_solve(A, mpmath.matrix([fn(xs[0]), fn(xs[1])]))
             assert abs(V[2][0] * c[0] + V[2][1] * c[1] - fn(xs[2])) < mpmath.mpf("1e-26") * abs(fn(xs[2]))
+
+
+def test_docstring_examples_run():
+    import doctest
+
+    from contourkit.geometry import contours
+    fails, tried = doctest.testmod(contours, verbose=False)
+    assert fails == 0 and tried >= 5

@@ -154,3 +154,22 @@ def test_varying_sound_speed_tanh_agrees_with_direct(s):
         rc, rd = m.scatter(om), ck.direct.scatter(m, om)
         assert rd.unitarity_residual < 1e-9
         assert abs(rc.thermal_ratio / rd.thermal_ratio - 1) < 1e-2
+
+
+@pytest.mark.parametrize("s", [1, -1])
+def test_sound_speed_alone_refused_near_horizon_solved_directly(s):
+    """Only c(x) varies: dD/dx ~ c c' k^2 has a double zero at k = 0 (an essential singular point of
+    the k-space solution), the two long-wavelength modes run into it, and on the supersonic side the
+    linearised c^2 turns negative, so they have no propagating continuation there.  The contour
+    method refuses with the way out; the direct solver gives the near-thermal spectrum (Hawking 1975,
+    Unruh 1976; 1e-2 at kappa/Lambda = 0.02 from memory) with pseudo-unitarity."""
+    b = sp.Rational(1, 20)
+    m = _varying_c(0, b, s, Dc=sp.Rational(1, 2))
+    assert m.kappa == pytest.approx(0.05, rel=1e-12)           # kappa = dc/dx at the horizon
+    om = 0.05 / (2 * math.pi)                                  # omega = T_H
+    with pytest.raises(ck.ScatteringError, match="no propagating continuation.*contourkit.direct.scatter"):
+        m.scatter(om)
+    for f in (0.5, 1.0, 2.0):
+        rd = ck.direct.scatter(m, f * om)
+        assert rd.unitarity_residual < 1e-9
+        assert abs(rd.thermal_ratio / math.exp(-f) - 1) < 1e-2           # exp(-2 pi omega/kappa), omega = f T_H

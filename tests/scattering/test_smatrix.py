@@ -210,7 +210,7 @@ def test_decomposition_check_follows_a_thimble_across_its_cut():
     of the power, no source needed) and the other coefficients do not change.
     """
     from contourkit.geometry.decompose import decompose
-    from contourkit.scattering.smatrix import _asymptotic_x, _sheet_factors
+    from contourkit.scattering.sides import _asymptotic_x, _sheet_factors
     m = ck.catalogue.dielectric_front(linear=True)
     rep = m.mode_equation(2 * m.hawking_temperature).fourier()
     contours = rep.basis()
