@@ -34,8 +34,9 @@ def exact(value, what=None):
     if isinstance(value, float):
         if not math.isfinite(value):
             raise InputError(f"expected a finite number{_for(what)}, got {value!r}; give a finite value")
-        return sp.Rational(repr(value))
+        return sp.Rational(repr(float(value)))       # float(): numpy's float64 is a float with its own repr
     if isinstance(value, complex):
+        value = complex(value)
         return exact(value.real) + I * exact(value.imag)
     if isinstance(value, sp.Basic):
         if value.has(sp.nan, sp.zoo, sp.oo, -sp.oo):

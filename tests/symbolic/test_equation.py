@@ -142,3 +142,15 @@ def test_from_ode_refuses_bad_arguments():
         ck.ModeEquation.from_ode(Y(X).diff(X, 2) - X * Y(X), sp.sin, X)
     with pytest.raises(ck.InputError, match="finite"):
         ck.ModeEquation.from_coefficients([0, 0, 1], [float("nan"), 0, 0])
+
+
+def test_numpy_scalars_are_read_as_their_decimals():
+    # numpy 2 gives float64 a repr of its own ('np.float64(0.05)'); the value must still be 1/20
+    import numpy as np
+    a = [np.float64(0.05), np.complex128(0.5 - 0.25j), np.float32(1.0)]
+    b = [np.int64(-1), np.float64(0.0), 0]
+    eq = ck.ModeEquation.from_coefficients(a, b)
+    ref = ck.ModeEquation.from_coefficients([0.05, 0.5 - 0.25j, 1.0], [-1, 0, 0])
+    assert sp.simplify(eq.A - ref.A) == 0 and sp.simplify(eq.B - ref.B) == 0
+    with pytest.raises(ck.InputError, match="finite"):
+        ck.ModeEquation.from_coefficients([np.float64("nan"), 0, 1], [1, 0, 0])
