@@ -47,9 +47,10 @@ def random_equations(draw):
 
 
 def _usable(a, b):
-    """Genuinely degenerate cases kept out (documented): coalescing zeros of B (a double zero
-    gives essential singularities, a case of its own), and integer exponents, for which a loop
-    vanishes and basis() refuses by design."""
+    """Cases kept out of this generic check: coalescing zeros of B (an exact double zero gives
+    an essential singular point: tests/geometry/test_essential_points.py), and integer
+    exponents, where the loop vanishes and the basis takes half-lines instead
+    (tests/geometry/test_integer_exponents.py)."""
     eq = ck.ModeEquation.from_coefficients(a, b)
     rep = eq.fourier()
     kj = rep._kj
