@@ -47,7 +47,7 @@ from ..symbolic.symmetric import linearise
 from .modes import DispersionDerivatives
 from .oriented import map_result
 from .results import ScatteringResult
-from .sides import _side_constants
+from .sides import _side_constants, _stable
 from .smatrix import in_mode_smatrix
 
 
@@ -56,14 +56,12 @@ MAX_DPS = 4000
 
 
 def _geometry(rep, contours, X):
+    """The decomposition at xi = X, checked against the one at 2X thimble by thimble (sides._stable)."""
     g0, coeffs = decompose(rep, contours, X, descent=False, exact=True, spiral_rays=True)
     g2, cf2 = decompose(rep, contours, 2 * X, descent=False, exact=True, spiral_rays=True)
-    for c in range(len(contours)):
-        a = sorted(i for _, i, _ in coeffs[c])
-        b = sorted(i for _, i, _ in cf2[c])
-        if a != b:
-            raise ScatteringError(f"the thimble decomposition at the turning point changes between xi = {X:.4g} "
-                                  f"and {2 * X:.4g} (Stokes phenomenon); give another X=")
+    if not _stable(rep, g0, coeffs, g2, cf2, exact=True):
+        raise ScatteringError(f"the thimble decomposition at the turning point changes between xi = {X:.4g} "
+                              f"and {2 * X:.4g} (Stokes phenomenon); give another X=")
     return g0, coeffs
 
 

@@ -80,16 +80,22 @@ def _sheet_factors(rep, crit_a, crit_b):
     critical points move radially between X and 2X in the asymptotic region,
     so the logs are continued along the straight segment from crit_a to crit_b.
     """
-    out = np.ones(len(crit_b), dtype=complex)
+    return np.array([np.exp(-2j * math.pi * complex(m @ rep._nu)) if m is not None else 1.0
+                     for m in _sheet_shifts(rep, crit_a, crit_b)], dtype=complex)
+
+
+def _sheet_shifts(rep, crit_a, crit_b):
+    """Per critical point, the integer sheet shifts m (one per singular point; None: no shift) of _sheet_factors."""
     if not rep._kj.size or len(crit_a) != len(crit_b):
-        return out
-    for i, (a, b) in enumerate(zip(crit_a, crit_b)):
+        return [None] * len(crit_b)
+    out = []
+    for a, b in zip(crit_a, crit_b):
         la = phase.cut_plane_logs(rep, a)[0]
         pts = a + (b - a) * np.linspace(0.0, 1.0, 9)[1:]
         for p, q in zip(np.concatenate([[a], pts[:-1]]), pts):
             la = phase.continue_logs(rep, p, la, q)
-        m = np.round((la - phase.cut_plane_logs(rep, b)[0]).imag / (2 * math.pi))
-        out[i] = np.exp(-2j * math.pi * complex(m @ rep._nu))
+        m = np.round((la - phase.cut_plane_logs(rep, b)[0]).imag / (2 * math.pi)).astype(int)
+        out.append(m if m.any() else None)
     return out
 
 
@@ -129,14 +135,25 @@ def _side_geometry(rep, contours, dd, sign, kappa):
 _STOKES_DOUBLINGS = 6
 
 
-def _stable(rep, g0, coeffs, g2, cf2s):
-    """The decompositions at X and 2X agree thimble by thimble (critical points followed from X to 2X)."""
+def _stable(rep, g0, coeffs, g2, cf2s, *, exact=False):
+    """The decompositions at X and 2X agree thimble by thimble (critical points followed from X to 2X).
+
+    ``exact``: the coefficients may be mpmath numbers beyond the double range
+    (``decompose(..., exact=True)``); the sheet factors are then taken in
+    mpmath too.
+    """
     perm = track(rep, g0.xg, g2.xg, crit0=g0.crit, crit1=g2.crit)
     if perm is None:
         return False
     inv = np.empty(len(perm), dtype=int)
     inv[perm] = np.arange(len(perm))
-    sheet = _sheet_factors(rep, g0.crit, g2.crit[perm])
+    if exact:
+        with mpmath.workdps(30):
+            nu = [mpmath.mpc(complex(v)) for v in rep._nu]
+            sheet = [mpmath.expjpi(-2 * mpmath.fsum(int(mi) * v for mi, v in zip(m, nu))) if m is not None else 1
+                     for m in _sheet_shifts(rep, g0.crit, g2.crit[perm])]
+    else:
+        sheet = _sheet_factors(rep, g0.crit, g2.crit[perm])
     for c, cf2 in enumerate(cf2s):
         a = sorted((i, abs(n)) for n, i, _ in coeffs[c])
         b = sorted((int(inv[i]), abs(n * sheet[inv[i]])) for n, i, _ in cf2)
