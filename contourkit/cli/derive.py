@@ -106,7 +106,7 @@ def _symbolic_facts(model):
     if not isinstance(model, HorizonModel):
         raise InputError("--symbolic needs a horizon model (kind = \"dispersion\", or an ode with [profiles])")
     d = model.symbolic()
-    return [("model", model.name or "unnamed"),
+    out = [("model", model.name or "unnamed"),
             ("parameters (symbol = value)", [(s, v) for s, v in d.parameters.items()]),
             ("dispersion relation D(omega, k; x) = 0, full profile", d.dispersion),
             ("horizon x_H (shifted to x = 0 below)", d.horizon),
@@ -115,8 +115,11 @@ def _symbolic_facts(model):
             ("left symbol A(k) + x B(k): A", d.A), ("left symbol A(k) + x B(k): B", d.B),
             ("k-space equation for f(k)", d.kspace_ode),
             ("exponent E(k), f = exp(E)", d.exponent),
-            ("branch points (k_j: exponent nu_j)", list(d.singular_points)),
-            ("orientation", str(model.orientation)), ("note", d.note)]
+            ("branch points (k_j: exponent nu_j)", list(d.singular_points))]
+    if d.essential_parts:
+        out.append(("essential parts (k_j: c_1, c_2, ... of the terms c_m (k - k_j)^-m of E)",
+                    [(p, *cs) for p, cs in d.essential_parts.items()]))
+    return out + [("orientation", str(model.orientation)), ("note", d.note)]
 
 
 def report(model, *, omega=None, latex=False, symbolic=False):

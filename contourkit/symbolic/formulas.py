@@ -9,7 +9,9 @@ near-horizon left symbol ``A(k) + x B(k)`` (symmetric coefficients truncated
 to first order at x_H, as in ``model.mode_equation``), the k-space equation
 ``i B f' + (A + i B') f = 0`` and its exponent
 ``E(k) = Q(k) + sum_j nu_j log(k - k_j)`` with ``nu_j = r(k_j)/B'(k_j)`` (the
-remainder r of ``(i A - B')/B``) at the simple zeros k_j of B.  The frequency
+remainder r of ``(i A - B')/B``) at the simple zeros k_j of B; at a multiple
+zero the Laurent part of ``r/B`` gives ``nu_j`` and the essential terms
+``c_m (k - k_j)^-m`` (``essential_parts``).  The frequency
 stays the symbol ``omega`` (positive); each parameter becomes a symbol with
 the sign of its value as assumption (``positive=True`` for a positive value),
 unless the model was given a sympy Symbol that carries assumptions already.
@@ -60,6 +62,9 @@ class SymbolicDerivation:
     exponent : sympy expression E(k), ``f = exp(E)``
     polynomial_part : sympy expression Q(k)
     singular_points : list of (k_j, nu_j)
+    essential_parts : dict
+        k_j -> [c_1, c_2, ...] at a multiple zero of B: ``E`` has the terms
+        ``c_m (k - k_j)^-m`` there (``Singularity.essential`` of the numeric layer)
     note : str   how x_H was obtained
     """
     parameters: dict
@@ -73,6 +78,7 @@ class SymbolicDerivation:
     exponent: object
     polynomial_part: object
     singular_points: list = field(default_factory=list)
+    essential_parts: dict = field(default_factory=dict)
     note: str = ""
 
     def substitute(self, values=None):
@@ -97,6 +103,8 @@ class SymbolicDerivation:
                     "polynomial_part"):
             out[key] = sp.sympify(getattr(self, key)).subs(subs)
         out["singular_points"] = [(sp.sympify(p).subs(subs), sp.sympify(n).subs(subs)) for p, n in self.singular_points]
+        out["essential_parts"] = {sp.sympify(p).subs(subs): [sp.sympify(c).subs(subs) for c in cs]
+                                  for p, cs in self.essential_parts.items()}
         return out
 
 
@@ -182,16 +190,41 @@ def derive(model):
     roots = sp.roots(sp.Poly(B, K))
     if sum(roots.values()) != sp.Poly(B, K).degree():
         raise ModelError(f"sympy finds no closed-form zeros of B(k) = {B}; the exponent stays numeric")
+    essential = {}
     for kj, mult in roots.items():
-        if mult != 1:
-            raise ModelError(f"B(k) has the multiple zero k = {kj}; its essential part is not derived symbolically")
-        nu = sp.expand(sp.simplify(r.as_expr().subs(K, kj) / sp.diff(B, K).subs(K, kj)))
-        if nu == 0:
+        if mult == 1:
+            nu, ess = sp.expand(sp.simplify(r.as_expr().subs(K, kj) / sp.diff(B, K).subs(K, kj))), []
+        else:
+            nu, ess = _laurent_part(r.as_expr(), B, kj, mult)
+        if nu == 0 and not ess:
             continue
-        points.append((sp.simplify(kj), nu))
-        E += nu * sp.log(K - kj)
+        kj = sp.simplify(kj)
+        points.append((kj, nu))
+        E += nu * sp.log(K - kj) + sum(c * (K - kj) ** -m for m, c in enumerate(ess, start=1))
+        if ess:
+            essential[kj] = ess
     points.sort(key=lambda p: complex(sp.N(p[0].subs(values).subs(W, 1), 20)).real, reverse=True)
     return SymbolicDerivation(parameters={ren[s]: v for s, v in getattr(model, "_symbolic_params", {}).items()},
                               dispersion=D, horizon=xh, kappa=kappa, hawking_temperature=kappa / (2 * sp.pi),
                               A=A, B=B, kspace_ode=ode, exponent=E, polynomial_part=Q, singular_points=points,
-                              note=note)
+                              essential_parts=essential, note=note)
+
+
+def _laurent_part(r, B, kj, mult):
+    """(nu, [c_1, ..., c_{mult-1}]) of r/B at a zero k_j of B of order mult.
+
+    With t = k - k_j, ``r/B = sum_m a_m t^-m + analytic``; the exponent is
+    ``nu = a_1`` and ``E`` gains ``c_m t^-m`` with ``c_m = -a_{m+1}/m``.
+    """
+    t = sp.Dummy("t")
+    Bq, rem = sp.div(sp.Poly(sp.expand(B.subs(K, kj + t)), t), sp.Poly(t ** mult, t))
+    if not rem.is_zero:             # pragma: no cover - roots() gave this multiplicity
+        raise ModelError(f"B(k) = {B} does not vanish to order {mult} at k = {kj}")
+    h = sp.expand(r.subs(K, kj + t)) / Bq.as_expr()
+    ser = sp.series(h, t, 0, mult).removeO()
+    a = [sp.simplify(ser.coeff(t, i)) for i in range(mult)]        # a[i]: coefficient of t^(i - mult)
+    nu = sp.expand(a[mult - 1])
+    ess = [sp.simplify(-a[mult - 1 - m] / m) for m in range(1, mult)]
+    while ess and ess[-1] == 0:
+        ess.pop()
+    return nu, ess

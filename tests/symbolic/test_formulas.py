@@ -79,3 +79,31 @@ def test_model_without_symbolic_source():
     m = ck.catalogue.quartic_flow(kappa=0.05, Lambda=2.5, hole="white").canonical_model()
     with pytest.raises(ck.ModelError, match="symbolic"):
         m.symbolic()
+
+
+def test_symbolic_essential_part_at_a_double_zero():
+    """Only c(x) varies: B = -2 kappa k^2 has a double zero at k = 0, so E has the term c_1/k.  The
+    symbolic Laurent part equals the numeric layer's (kspace.Singularity.essential, exponent) after
+    substitution, exactly and to 1e-14, at three parameter sets; the closed form
+    nu = -1 - i omega/kappa, c_1 = i omega^2/(2 kappa) follows from r/B by hand (superluminal quartic)."""
+    c = 1 + kap * x
+    D = (w + k) ** 2 - c ** 2 * k ** 2 - k ** 4 / Lam ** 2
+    W = sp.Symbol("omega", positive=True)
+    for vals in SETS:
+        m = _model(D, vals)
+        d = m.symbolic()
+        (p, nu), = d.singular_points
+        assert p == 0 and sp.simplify(nu - (-1 - sp.I * W / kap)) == 0
+        assert sp.simplify(d.essential_parts[0][0] - sp.I * W ** 2 / (2 * kap)) == 0
+        rep = m.mode_equation(vals["omega"]).fourier()
+        (s,) = rep.singularities
+        sub = d.substitute({"omega": vals["omega"]})
+        assert sp.simplify(sub["singular_points"][0][1] - s.exponent) == 0
+        assert len(sub["essential_parts"][0]) == len(s.essential) == 1
+        assert sp.simplify(sub["essential_parts"][0][0] - s.essential[0]) == 0
+        assert abs(complex(sub["essential_parts"][0][0]) - complex(s.essential[0])) < 1e-14
+        # the whole exponent: E(k) of both layers at a few points (the log branch is the same)
+        for kk in (0.3 + 0.1j, -0.7 + 0.4j, 1.2 - 0.5j):
+            e_sym = complex(sub["exponent"].subs(sp.Symbol("k"), kk).evalf(20))
+            e_num = complex(rep.exponent.subs(rep.exponent.free_symbols.pop(), kk).evalf(20))
+            assert abs(e_sym - e_num) < 1e-12 * max(1.0, abs(e_num))
