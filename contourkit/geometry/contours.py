@@ -336,8 +336,8 @@ def _essential_exit(rep, x, j, kj, sector, th, level, R0):
         if phase.phi(rep, x, p, phase.cut_plane_logs(rep, p)[0]).real < level or delta < 1e-250:
             break
         delta *= 0.5
-    n = max(2, int(math.ceil(math.log(r / delta) / 0.2)) + 1)
-    radial = [kj + t * e for t in np.geomspace(delta, r, n)]
+    n = int(math.ceil(math.log(r / delta) / 0.2)) + 1
+    radial = [kj + t * e for t in np.geomspace(delta, r, n)] if n > 1 else [kj + r * e]
     turn = (th - ths + math.pi) % (2 * math.pi) - math.pi
     arc = _arc(kj, r, ths, ths + turn) if abs(turn) > 1e-12 else [kj + r * e]
     far = _leg(rep, x, kj, j, r, cmath.exp(1j * th), th, level, R0)
@@ -387,7 +387,7 @@ def representative(rep, x, kind, params, crit, level):
         verts = _ray_out(rep, x, arc[0], a, level, R0)[::-1] + arc + _ray_out(rep, x, arc[-1], b, level, R0)
         start_logs = None
     elif kind == "half" and start[2]:
-        # a ray from k_j itself (integer exponent or ordinary zero of B)
+        # a ray from k_j itself (integer exponent, ordinary zero of B or essential singular point)
         verts, start_logs = ray_from(rep, x, start[0], start[1], params["valley"], level, R0,
                                      sector=params.get("sector", 0))
     elif kind in ("loop", "half"):
