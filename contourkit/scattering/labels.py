@@ -257,12 +257,11 @@ def _near_label_plan(far_k, x, label_x, dd):
     have = sorted(_flux_sign(m) for m in free)
     groups = {g: {(m.norm, m.direction) for m in free if _flux_sign(m) == g} for g in set(have)}
     if not pending:
-        ks = ", ".join(f"{complex(m.k).real:.4g}" for m in free)
-        raise ScatteringError(f"on the {side} side the near-horizon modes k = {ks} at x = {label_x} have no "
-                              f"propagating continuation far out (at x = {x} their roots are complex: the "
-                              f"linearised profile leaves the physical range there, e.g. a squared wave speed "
-                              f"that turns negative), so the near-horizon method cannot label them; use "
-                              f"contourkit.direct.scatter on the full profile")
+        raise ScatteringError(f"on the {side} side {len(free)} propagating mode(s) next to the horizon have no "
+                              f"propagating continuation in the far region of the linearised model (their "
+                              f"wavenumbers turn complex there: the linearised profile leaves the physical range, "
+                              f"e.g. a squared wave speed that turns negative), so the near-horizon method cannot "
+                              f"label them; use contourkit.direct.scatter on the full profile")
     if want != have or any(len(g) != 1 for g in groups.values()):
         ks = ", ".join(f"{far_k[i]:.4g}" for i, _, _ in pending)
         raise ScatteringError(f"on the {side} side the modes k = {ks} at x = {x} do not continue to the "
