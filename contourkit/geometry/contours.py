@@ -237,7 +237,13 @@ def _arc(center, radius, a0, a1, max_step=0.08):
 
 
 def _end_valley(rep, x, angle):
-    """The valley whose closure contains the direction `angle`, for a real-axis end."""
+    """The valley whose closure contains the direction `angle`, for a real-axis end.
+
+    The valleys are those at the real position: the geometry's perturbation of
+    x (decompose.geometry_x) turns a half-plane valley (deg Q <= 1) by about
+    1e-7 rad, which would put one end of the real axis just outside it.
+    """
+    x = complex(x).real
     best = None
     for v in rep.valleys_at(x):
         d = abs((angle - v.center + math.pi) % (2 * math.pi) - math.pi)
@@ -246,7 +252,7 @@ def _end_valley(rep, x, angle):
         if abs(d - v.halfwidth) <= 1e-9:
             best = v
     if best is None:
-        raise ContourError(f"the real-axis contour does not converge at x = {x}: the direction "
+        raise ContourError(f"the real-axis contour does not converge at x = {x:.6g}: the direction "
                            f"{'+' if abs(angle) < 1 else '-'}infinity lies in a hill of the integrand; use valley-to-valley "
                            f"contours (Contour.between) or loops instead")
     if rep.degree_Q < 2 and rep.sum_of_exponents.real >= 0:

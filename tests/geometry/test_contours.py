@@ -291,3 +291,23 @@ def test_kummer_basis_spans_M_and_U(a, b):
         ref = np.array([complex(fn(float(a), float(b), float(x))) for x in xs])
         coef = np.linalg.lstsq(V / np.abs(ref)[:, None], ref / np.abs(ref), rcond=None)[0]
         assert np.max(np.abs(V @ coef - ref) / np.abs(ref)) < 1e-9
+
+
+def test_real_axis_with_a_half_plane_valley(bessel):
+    """deg Q <= 1: the valley is the half-plane Im(x k) > 0 and the real axis runs along its edge
+    (Abel/Jordan reading, |f| ~ |k|^-1).  It used to be refused at every x: the geometry's tiny
+    perturbation of x turned the half-plane and put one end just outside it.  Sources: Cauchy's
+    theorem with Jordan's lemma (the axis indented on the side away from every singular point closes
+    in the valley: 0); the other indentation is a solution of Bessel's equation of order 0 that is
+    regular at x = 0, a multiple of J_0 (DLMF 10.2.2; scipy.special.j0); measured 2 pi i J_0(|x|)."""
+    import scipy.special as ss
+    for x in (2.0, 5.0, 9.5):
+        assert abs(complex(bessel.evaluate(ck.Contour.real_axis("above"), x))) <= 1e-12
+        assert abs(complex(bessel.evaluate(ck.Contour.real_axis("below"), -x))) <= 1e-12
+    xs = [0.7, 2.0, 5.0, 9.5]
+    for ind, sign in (("below", 1), ("above", -1)):
+        vals = [complex(bessel.evaluate(ck.Contour.real_axis(ind), sign * x)) for x in xs]
+        c = vals[0] / ss.j0(xs[0])
+        assert abs(c - 2j * math.pi) < 1e-12
+        for x, v in zip(xs, vals):
+            assert abs(v - c * ss.j0(x)) <= 1e-12 * abs(c)
