@@ -133,6 +133,9 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
                 raise ScatteringError(f"the amplitudes span more decades than {MAX_DPS} digits resolve")
             work = min(MAX_DPS, max(work + 20, int(lost) + dps + 20 if S is not None else 2 * work))
             ins, outs, grow = attempt(Xa, work)
+        if S is None:
+            raise ScatteringError(f"the in-mode system at x_t -+ {Xa:.4g} stays numerically singular up to "
+                                  f"{work} digits (its amplitudes span too many decades)")
         if not (mpmath.isfinite(resid) and resid < 1e-3):
             raise ScatteringError(f"the S-matrix is not pseudo-unitary (residual {float(resid):.3g}): the modes "
                                   f"read at x_t -+ {Xa:.4g} are not asymptotic")

@@ -334,7 +334,12 @@ def _solve_equilibrated(A, rhs):
     for i in range(n):
         for j in range(rhs.cols):
             R[i, j] = rhs[i, j] / rs[i]
-    Y = mpmath.inverse(B) * R
+    try:
+        Y = mpmath.inverse(B) * R
+    except (ZeroDivisionError, TypeError) as exc:
+        # mpmath's LU raises ZeroDivisionError for a numerically singular matrix, or a TypeError when a
+        # whole pivot column cancels to zero at the working precision
+        raise ZeroDivisionError("the in-mode system is numerically singular at this precision") from exc
     for i in range(n):
         for j in range(rhs.cols):
             Y[i, j] /= cs[i]

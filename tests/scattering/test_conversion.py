@@ -185,3 +185,19 @@ def test_varying_wave_speed_every_orientation(flow, side):
     assert rc.unitarity_residual <= 1e-8 and rd.unitarity_residual <= 1e-8
     assert _matched(rc, rd) < 1e-5                           # measured 5e-10 in each orientation
     assert abs(blocked_mode_figures(rc)[0] - 1) < 1e-8
+
+
+@pytest.mark.slow
+def test_amplitudes_beyond_the_precision_bound_are_refused():
+    """Weak dispersion (k^4 coefficient 0.4) in a long current (L = 58): exponents Im nu ~ 2600, and the
+    basis amplitudes span ~15000 decades, beyond MAX_DPS = 4000.  The solve used to end in a TypeError
+    inside mpmath; it is refused with the way out, and the direct solver gives the S-matrix."""
+    v = -sp.Rational(13, 50) - sp.Rational(1, 25) * sp.tanh(x / 58)
+    m = ck.HorizonModel.from_dispersion((w - v * k) ** 2 - k ** 2 + sp.Rational(2, 5) * k ** 4, omega=w, k=k, x=x,
+                                        horizon="none", window=(-2900, 2900))
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", CoalescenceWarning)
+        with pytest.raises(ck.ScatteringError, match="contourkit.direct.scatter"):
+            m.scatter(0.51)
+    rd = ck.direct.scatter(m, 0.51)
+    assert rd.unitarity_residual < 1e-8

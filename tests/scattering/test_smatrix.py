@@ -273,3 +273,15 @@ def test_dielectric_front_scatters_at_low_frequency():
         assert abs(res.thermal_ratio / math.exp(-r) - 1) < 1e-3
         d = ck.direct.scatter(m, r * T)
         assert abs(res.thermal_ratio / d.thermal_ratio - 1) < 1e-3
+
+
+def test_singular_in_mode_system_is_a_zero_division():
+    # mpmath's LU gives a TypeError (not ZeroDivisionError) when a whole pivot column is zero; the
+    # callers escalate the precision or refuse on ZeroDivisionError only
+    import mpmath
+    from contourkit.scattering.smatrix import _solve_equilibrated
+    A = mpmath.matrix([[0, 1], [0, 2]])
+    with pytest.raises(ZeroDivisionError, match="numerically singular"):
+        _solve_equilibrated(A, mpmath.eye(2))
+    X = _solve_equilibrated(mpmath.matrix([[2, 1], [1e-300, 3]]), mpmath.eye(2))
+    assert abs(X[0, 0] - mpmath.mpf(3) / (6 - 1e-300)) < 1e-14
