@@ -11,5 +11,6 @@ from .comparison import compare
 extensions.provide("omega_max", cutoff.omega_max)
 extensions.provide("turning_points", turning.turning_points)
 extensions.provide("full_profile", validity.attach)
+extensions.provide("turning_point_check", validity.attach_turning)
 
 __all__ = ["compare", "cutoff", "direct", "turning", "validity"]

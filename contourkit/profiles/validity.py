@@ -306,4 +306,44 @@ def attach(model, results, *, tolerance=TOLERANCE, max_solves=6, stacklevel=4):
     return results
 
 
-__all__ = ["Validity", "attach", "hawking_channel", "has_full_profile", "check_tolerance", "TOLERANCE"]
+def attach_turning(model, res, *, stacklevel=4):
+    """Check a turning-point result's mode content against the full profile's uniform regions (in place).
+
+    The contour method at a dispersive turning point scatters the profile
+    linearised there: its in-modes are those of that linear model.  Where the
+    full profile's two uniform regions hold another number of in-modes of
+    either norm (a second conversion between them, e.g. a point where
+    ``omega = v k`` on a branch, at which that mode's norm changes sign, or a
+    mode that is blocked elsewhere), the result is not the S-matrix of the
+    flow: ``res.validity`` is then not reliable (errors ``inf``), the reason is
+    given and a ValidityWarning is issued.  Where the content agrees,
+    ``res.validity`` stays None (the turning-point coefficients carry no
+    error estimate against the full profile; docs/limitations.md).
+
+    Returns
+    -------
+    ScatteringResult (the same object)
+    """
+    try:
+        full = asymptotic_modes(model, res.omega, "exterior") + asymptotic_modes(model, res.omega, "interior")
+    except ContourkitError:                    # no uniform regions to compare with
+        return res
+    count = lambda ms, s: sum(1 for m in ms if m.kind == "propagating" and m.direction == "in" and m.norm == s)  # noqa: E731
+    have = (count(res.in_modes, 1), count(res.in_modes, -1))
+    want = (count(full, 1), count(full, -1))
+    if have == want:
+        return res
+    reason = (f"the full profile's uniform regions hold {want[0]} positive-norm and {want[1]} negative-norm "
+              f"in-modes at omega = {res.omega:.6g}, the profile linearised at the turning point {have[0]} and "
+              f"{have[1]}: another conversion lies between the turning point and the uniform regions, so this is "
+              f"not the flow's S-matrix (contourkit.direct.scatter solves the full profile where its mode count "
+              f"closes)")
+    res.validity = Validity(math.inf, math.inf, False, reason, TOLERANCE, (), "mode content")
+    res.message += "; " + reason
+    warnings.warn(f"turning-point result at omega = {res.omega:.6g} does not describe the flow: {reason}",
+                  ValidityWarning, stacklevel=stacklevel)
+    return res
+
+
+__all__ = ["Validity", "attach", "attach_turning", "hawking_channel", "has_full_profile", "check_tolerance",
+           "TOLERANCE"]

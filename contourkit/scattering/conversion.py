@@ -42,6 +42,7 @@ import numpy as np
 
 from ..errors import AccuracyError, InputError, ScatteringError
 from ..geometry.decompose import decompose
+from ..symbolic import extensions
 from ..symbolic._sym import exact, exact_expr
 from ..symbolic.symmetric import linearise
 from .modes import DispersionDerivatives
@@ -216,6 +217,13 @@ def scatter_horizonless(model, omega, **kw):
     >>> res.unitarity_residual < 1e-8
     True
     """
+    res = _scatter_horizonless(model, omega, **kw)
+    if "turning_point_check" in extensions.provided():       # the full profile's mode content (profiles layer)
+        extensions.call("turning_point_check", model, res, stacklevel=6)
+    return res
+
+
+def _scatter_horizonless(model, omega, **kw):
     tps = model.turning_points(omega)
     if len(tps) != 1:
         raise ScatteringError(f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "

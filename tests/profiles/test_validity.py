@@ -180,3 +180,34 @@ def test_nondispersive_tanh_flow_keeps_its_hawking_channel():
     assert res.hawking_channel is True and ck.ContourkitWarning not in cats
     assert abs(res.thermal_ratio / math.exp(-2 * math.pi * 0.05 / 0.05) - 1) < 1e-12
     assert res.validity.method == "non-dispersive"
+
+
+def _counter_current(v0, dv, L, alpha):
+    import sympy as sp
+    w, k, x = sp.symbols("omega k x")
+    v = -v0 - dv * sp.tanh(x / L)
+    return ck.HorizonModel.from_dispersion((w - v * k) ** 2 - k ** 2 + alpha * k ** 4, omega=w, k=k, x=x,
+                                           horizon="none", window=(-50 * L, 50 * L))
+
+
+def test_turning_point_mode_content_against_the_uniform_regions():
+    """A turning-point result is the linearised model's.  Where the uniform regions of the full profile
+    hold other in-modes (here omega = v k with dD/domega = 0 at k ~ -1.05 between the turning point and
+    x -> -infinity: that branch changes its norm, so it enters from both sides; a random case of our own),
+    it is flagged; where they agree (the counter-current of tests/scattering/test_conversion.py) it is not.
+    Counting in-modes by norm sign on plane waves of the uniform regions: common practice."""
+    import sympy as sp
+    from contourkit.errors import CoalescenceWarning
+    odd = _counter_current(sp.Rational(7, 25), sp.Rational(1, 20), 23, sp.Rational(9, 10))
+    with warnings.catch_warnings(record=True) as seen:
+        warnings.simplefilter("always")
+        res = odd.scatter(0.31)
+    assert res.validity is not None and not res.validity.reliable and res.validity.method == "mode content"
+    assert "3 positive-norm and 1 negative-norm" in res.validity.reason
+    assert any(issubclass(w.category, ck.ValidityWarning) for w in seen)
+    good = _counter_current(sp.Rational(71, 200), sp.Rational(9, 200), 20, 1)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", CoalescenceWarning)
+        warnings.simplefilter("error", ck.ValidityWarning)
+        res = good.scatter(0.27)
+    assert res.validity is None
