@@ -113,7 +113,9 @@ def scatter_turning_point(model, omega, point, *, X=None, dps=60):
         grow = [(md, N) for md, N in rows if md.mode.kind == "growing"]
         if len(ins) + len(grow) != len(contours):
             raise ScatteringError(f"mode counting does not close at xi = -+{Xa:.4g}: "
-                                  f"{len(ins)} in-modes and {len(grow)} growing modes for {len(contours)} solutions")
+                                  f"{len(ins)} in-modes and {len(grow)} growing modes for {len(contours)} solutions "
+                                  f"(for instance a branch on which omega = v k, whose norm changes sign there, "
+                                  f"enters from both sides)")
         return ins, outs, grow
     n_c = len(contours)
 
