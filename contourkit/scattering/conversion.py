@@ -202,6 +202,10 @@ def scatter_horizonless(model, omega, **kw):
     Returns
     -------
     ScatteringResult
+        ``validity`` is None, or not reliable (with the reason and a
+        ValidityWarning) where the full profile's uniform regions hold other
+        in-modes than the linearised turning point
+        (:func:`contourkit.profiles.validity.attach_turning`).
 
     Raises
     ------
@@ -226,6 +230,7 @@ def scatter_horizonless(model, omega, **kw):
 
 
 def _scatter_horizonless(model, omega, **kw):
+    """scatter_horizonless without the mode-content check: the orientation mapping and the solve."""
     tps = model.turning_points(omega)
     if len(tps) != 1:
         raise ScatteringError(f"this horizonless flow has {len(tps)} dispersive turning points at omega = {omega} "
