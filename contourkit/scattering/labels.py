@@ -263,12 +263,12 @@ def _near_label_plan(far_k, x, label_x, dd):
                               f"e.g. a squared wave speed that turns negative), so the near-horizon method cannot "
                               f"label them; use contourkit.direct.scatter on the full profile")
     if want != have or any(len(g) != 1 for g in groups.values()):
-        ks = ", ".join(f"{far_k[i]:.4g}" for i, _, _ in pending)
-        raise ScatteringError(f"on the {side} side the modes k = {ks} at x = {x} do not continue to the "
-                              f"near-horizon region at x = {label_x} (their roots turn complex on the way) and "
-                              f"their flux directions do not match the remaining near-horizon modes one to one: "
-                              f"the linearised model's far region is not a continuation of the near-horizon "
-                              f"region; use contourkit.direct.scatter on the full profile")
+        raise ScatteringError(f"on the {side} side {len(pending)} far-region mode(s) of the linearised model do "
+                              f"not continue to propagating modes next to the horizon (their wavenumbers turn "
+                              f"complex on the way) and their flux directions do not match the remaining "
+                              f"near-horizon modes one to one: the linearised model's far region is not a "
+                              f"continuation of the near-horizon region; use contourkit.direct.scatter on the "
+                              f"full profile")
     for i, _, _ in pending:
         plan.append((i, next(m for m in free if _flux_sign(m) == _flux_sign(far[i])), True))
     return plan
