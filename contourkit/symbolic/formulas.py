@@ -41,6 +41,7 @@ import sympy as sp
 
 from ._sym import KS as K, OMEGA, I
 from ..errors import ModelError
+from .kspace import laurent_part
 from .symmetric import from_symmetric
 
 #: the positive frequency symbol of the formulas
@@ -195,7 +196,8 @@ def derive(model):
         if mult == 1:
             nu, ess = sp.expand(sp.simplify(r.as_expr().subs(K, kj) / sp.diff(B, K).subs(K, kj))), []
         else:
-            nu, ess = _laurent_part(r.as_expr(), B, kj, mult)
+            nu, ess = laurent_part(r.as_expr(), B, kj, mult)
+            nu, ess = sp.expand(sp.simplify(nu)), [sp.simplify(c) for c in ess]
         if nu == 0 and not ess:
             continue
         kj = sp.simplify(kj)
@@ -208,23 +210,3 @@ def derive(model):
                               dispersion=D, horizon=xh, kappa=kappa, hawking_temperature=kappa / (2 * sp.pi),
                               A=A, B=B, kspace_ode=ode, exponent=E, polynomial_part=Q, singular_points=points,
                               essential_parts=essential, note=note)
-
-
-def _laurent_part(r, B, kj, mult):
-    """(nu, [c_1, ..., c_{mult-1}]) of r/B at a zero k_j of B of order mult.
-
-    With t = k - k_j, ``r/B = sum_m a_m t^-m + analytic``; the exponent is
-    ``nu = a_1`` and ``E`` gains ``c_m t^-m`` with ``c_m = -a_{m+1}/m``.
-    """
-    t = sp.Dummy("t")
-    Bq, rem = sp.div(sp.Poly(sp.expand(B.subs(K, kj + t)), t), sp.Poly(t ** mult, t))
-    if not rem.is_zero:             # pragma: no cover - roots() gave this multiplicity
-        raise ModelError(f"B(k) = {B} does not vanish to order {mult} at k = {kj}")
-    h = sp.expand(r.subs(K, kj + t)) / Bq.as_expr()
-    ser = sp.series(h, t, 0, mult).removeO()
-    a = [sp.simplify(ser.coeff(t, i)) for i in range(mult)]        # a[i]: coefficient of t^(i - mult)
-    nu = sp.expand(a[mult - 1])
-    ess = [sp.simplify(-a[mult - 1 - m] / m) for m in range(1, mult)]
-    while ess and ess[-1] == 0:
-        ess.pop()
-    return nu, ess

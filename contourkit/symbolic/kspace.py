@@ -41,6 +41,33 @@ def _clean(v):
     return v
 
 
+def laurent_part(r, B, kj, m):
+    """The exponent and the essential coefficients of ``r/B`` at a zero k_j of B of order m.
+
+    With ``h = (k - k_j)^m r/B`` (analytic at k_j), ``r/B = sum_l a_l (k - k_j)^(l - m)`` +
+    analytic, ``a_l = h^(l)(k_j)/l!``.  The residue ``nu = a_(m-1)`` multiplies
+    ``log(k - k_j)`` in E, and ``a_(m-1-p) (k - k_j)^-(p+1)`` integrates to
+    ``c_p (k - k_j)^-p`` with ``c_p = -a_(m-1-p)/p``.  Shared by the numeric
+    representation and the symbolic formulas (parameters as symbols).
+
+    Returns
+    -------
+    (nu, [c_1, ..., c_P])
+        P < m, trailing zero coefficients dropped (so c_P != 0).
+    """
+    quo, _ = sp.div(sp.Poly(sp.expand(B), K), sp.Poly((K - kj) ** m, K))
+    hl = r / quo.as_expr()
+    a = []
+    for ll in range(m):
+        a.append(_clean(hl.subs(K, kj)) / sp.factorial(ll))
+        if ll < m - 1:
+            hl = sp.diff(hl, K)
+    ess = [_clean(-a[m - 1 - p] / p) for p in range(1, m)]
+    while ess and _clean(ess[-1]) == 0:
+        ess.pop()
+    return _clean(a[m - 1]), ess
+
+
 def _roots_with_multiplicity(B):
     """Exact roots of the polynomial B (sympy Poly) with multiplicities; numeric where needed."""
     out = []
@@ -104,9 +131,8 @@ class Singularity:
         self.valleys = []
         if self.essential:
             self.kind = "essential"
-            cs = [complex(sp.N(c, 30)) for c in self.essential]
-            p = max(m for m, c in enumerate(cs, start=1) if c != 0)
-            c = cs[p - 1]
+            p = len(self.essential)                  # laurent_part drops trailing zeros: c_p != 0
+            c = complex(sp.N(self.essential[-1], 30))
             # Re(c e^{-i p theta}) < 0 around arg c - p theta = pi (mod 2 pi)
             self.valleys = [Valley(m, (cmath.phase(c) - math.pi + 2 * math.pi * m) / p, math.pi / (2 * p))
                             for m in range(p)]
@@ -194,27 +220,7 @@ class KSpaceRepresentation:
         sings = []
         if B.degree() > 0:
             for kj, m in _roots_with_multiplicity(B):
-                qj = sp.Poly(sp.expand(B.as_expr()), K)
-                # h(k) = (k - kj)^m r(k)/B(k) = r / (B/(k-kj)^m); Laurent coefficients of r/B at kj
-                quo, rem = sp.div(qj, sp.Poly((K - kj) ** m, K))
-                h = r.as_expr() / quo.as_expr()
-                coeffs = []
-                hl = h
-                for l in range(m):
-                    val = _clean(hl.subs(K, kj)) / sp.factorial(l)
-                    coeffs.append(val)
-                    if l < m - 1:
-                        hl = sp.diff(hl, K)
-                nu = _clean(coeffs[m - 1])
-                # coefficient c_l multiplies (k-kj)^(l-m); integrates to c_l (k-kj)^(l-m+1)/(l-m+1)
-                ess = [_clean(coeffs[l] / (l - m + 1)) for l in range(m - 1)]  # power (l-m+1) < 0
-                ess_by_power = {}
-                for l in range(m - 1):
-                    ess_by_power[m - 1 - l] = ess[l]
-                ess_list = [ess_by_power.get(p, 0) for p in range(1, m)]
-                while ess_list and _clean(ess_list[-1]) == 0:
-                    ess_list.pop()
-                sings.append(Singularity(kj, nu, ess_list))
+                sings.append(Singularity(kj, *laurent_part(r.as_expr(), B.as_expr(), kj, m)))
         # a zero of B where E' is analytic (exponent 0, no essential part) is an ordinary point of f
         self.ordinary_zeros = [s.point for s in sings if s.kind == "regular"]
         sings = [s for s in sings if s.kind != "regular"]
