@@ -1,7 +1,12 @@
-"""Shared fixtures: the k-space representations of the Airy and Bessel equations.
+"""Shared fixtures: the k-space representations of the Airy and Bessel equations, and the
+interruption of a scan in a subprocess (``interrupt_scan``).
 
 Airy: y'' - x y = 0 (DLMF 9.2.1); Bessel of order 0: x y'' + y' + x y = 0 (DLMF 10.2.1).
 """
+import signal
+import subprocess
+import time
+
 import pytest
 import sympy as sp
 
@@ -39,10 +44,6 @@ def _interrupt_scan(cmd, out, *, rows, total, sig, env, attempts=4):
     come after the last row: then the file is dropped and the scan started
     again, up to ``attempts`` times.
     """
-    import signal as _signal
-    import subprocess
-    import time
-
     for _ in range(attempts):
         out.unlink(missing_ok=True)
         proc = subprocess.Popen(cmd, env=env, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, text=True)
@@ -57,7 +58,7 @@ def _interrupt_scan(cmd, out, *, rows, total, sig, env, attempts=4):
             _, err = proc.communicate(timeout=60)
         finally:
             if proc.poll() is None:
-                proc.send_signal(_signal.SIGKILL)
+                proc.send_signal(signal.SIGKILL)
                 proc.wait()
         left = out.read_bytes().count(b"\n") - 2 if out.exists() else 0
         if left < total:

@@ -302,12 +302,12 @@ def ray_from(rep, x, j, kj, valley, level, R0, sheet=0, sector=0):
     From an essential singular point see :func:`_essential_exit`.
     """
     th = _valley(rep, x, valley, j).center
-    d = cmath.exp(1j * th)
     if j is not None and rep.singularities[j].kind == "essential":
         verts, ths = _essential_exit(rep, x, j, kj, sector, th, level, R0)
         start_logs = phase.cut_plane_logs(rep, verts[0])[0]
         start_logs[j] = math.log(abs(verts[0] - kj)) + 1j * (_reduce(ths, rep.cut_angle) + 2 * math.pi * sheet)
         return verts, start_logs
+    d = cmath.exp(1j * th)
     delta = 0.0 if j is None else 1e-9 * max(1.0, abs(kj))
     verts = _leg(rep, x, kj, -1 if j is None else j, delta, d, th, level, R0)
     if j is None:
@@ -329,7 +329,7 @@ def _essential_exit(rep, x, j, kj, sector, th, level, R0):
     Returns (vertices, direction of the start).
     """
     vs = rep.singularities[j].valleys
-    if isinstance(sector, bool) or not isinstance(sector, (int, np.integer)) or not 0 <= sector < len(vs):
+    if sector >= len(vs):                   # an integer >= 0 (Contour.half_line checks it)
         raise ContourError(f"unknown sector {sector!r}: the essential singular point {rep.singularities[j].point} "
                            f"has {len(vs)} local valley(s), numbered 0..{len(vs) - 1} (Singularity.valleys)")
     ths = vs[sector].center

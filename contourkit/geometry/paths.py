@@ -142,8 +142,7 @@ def trace_arm(rep, x, sigma, direction, *, ascent=False, u_stop=40.0, crit=None,
             # an arm can only end where the integrand vanishes (descent) or blows up (ascent); a descent
             # arm into an essential singular point is traced on until u_stop (the integrand vanishes
             # faster than any power there: it ends as in a valley, with no power-law tail)
-            can = (bool(P.ess[j]) and ascent) or (P.nu[j].real < 0 if ascent else
-                                                  (P.nu[j].real > 0 and not P.ess[j]))
+            can = ascent if P.ess[j] else (P.nu[j].real < 0 if ascent else P.nu[j].real > 0)
             lim = _disc_limit(other[j], None if clear is None else clear[j])
             if can and len(ks) > 2 and dist < abs(ks[-2] - P.kj[j]):
                 wound = ascent and _captured(P, j, dist, lim)
