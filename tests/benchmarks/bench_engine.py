@@ -28,22 +28,9 @@ from scipy.special import airy
 ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 import contourkit as ck  # noqa: E402
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from _page import publish  # noqa: E402
 
-DOC = ROOT / "docs" / "performance.md"
-START, END = "<!-- engine:start -->", "<!-- engine:end -->"
-HP_START, HP_END = "<!-- engine-hp:start -->", "<!-- engine-hp:end -->"
-
-
-def write_section(start, end, lines):
-    section = "\n".join([start, *lines, end])
-    text = DOC.read_text() if DOC.exists() else "# Performance\n"
-    if start in text and end in text:
-        i, j = text.index(start), text.index(end) + len(end)
-        text = text[:i] + section + text[j:]
-    else:
-        text = text.rstrip("\n") + "\n\n" + section + "\n"
-    DOC.write_text(text)
-    print(section)
 
 
 def high_precision():
@@ -59,7 +46,7 @@ def high_precision():
         with mpmath.workdps(dps + 20):
             err = abs(mpmath.mpc(v) / (2 * mpmath.pi * mpmath.airyai(-10)) - 1)
         rows.append(f"| {dps} | {dt:.3g} | {mpmath.nstr(err, 2)} |")
-    write_section(HP_START, HP_END, [
+    publish("engine-hp", [
         "### (c) High precision: Ai(-10) on the real axis (one call each, fresh geometry per call)", "",
         f"Measured by `python tests/benchmarks/bench_engine.py --high-precision` on {platform.platform()}, "
         f"Python {platform.python_version()}, mpmath {mpmath.__version__} (machine shared with other jobs: "
@@ -172,7 +159,6 @@ def main():
     except OSError:
         ncpu = str(os.cpu_count())
     lines = [
-        START,
         "## Engine",
         "",
         f"Measured by `python tests/benchmarks/bench_engine.py` on {platform.platform()}, "
@@ -213,22 +199,8 @@ def main():
         "",
         "scipy.special.airy is a compiled evaluation of one function, so the comparison bounds the "
         "overhead of the general method.",
-        END,
     ]
-    section = "\n".join(lines)
-    if DOC.exists():
-        text = DOC.read_text()
-    else:
-        text = ("# Performance\n\nMeasured costs of contourkit's layers. Each section is written by its own "
-                "benchmark script under `tests/benchmarks/`; rerun the script to refresh its section.\n\n")
-    if START in text and END in text:
-        i, j = text.index(START), text.index(END) + len(END)
-        text = text[:i] + section + text[j:]
-    else:
-        text = text.rstrip("\n") + "\n\n" + section + "\n"
-    DOC.parent.mkdir(exist_ok=True)
-    DOC.write_text(text)
-    print(section)
+    publish("engine", lines)
 
 
 if __name__ == "__main__":

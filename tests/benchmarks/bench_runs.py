@@ -36,7 +36,7 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 ROOT = os.path.abspath(os.path.join(HERE, "..", ".."))
 PAGE = os.path.join(ROOT, "docs", "performance.md")
 sys.path.insert(0, ROOT)
-from _page import write_section  # noqa: E402
+from _page import section, write_section  # noqa: E402
 
 PY_SPECTRUM = r"""
 import json, sys, time
@@ -176,7 +176,6 @@ def report(cli, dr, rounds):
         return (f"| {label} | {_med(cli[key]):.2f} | {_med(cli[key + '_cpu']):.2f} | "
                 f"{', '.join(f'{t:.2f}' for t in cli[key + '_cpu'])} |")
     lines = [
-        "<!-- runs:start -->",
         "## Long runs: the command line and the engine; the direct solver beside busy processes",
         "",
         f"Measured {time.strftime('%Y-%m-%d')} on {platform.machine()}, {os.cpu_count()} cores, Python "
@@ -227,9 +226,8 @@ def report(cli, dr, rounds):
               f"and the wall-clock slowdown is the share of the cores that the other processes take. On 2 cores "
               f"two busy processes leave this one about two thirds of a core on an otherwise quiet machine (1.5x); "
               f"with the load average above, the quiet runs were not quiet either, so the wall-clock ratio of "
-              f"this run says more about the machine than about the solver. {_unbounded_words(dr)}",
-              "<!-- runs:end -->"]
-    return "\n".join(lines)
+              f"this run says more about the machine than about the solver. {_unbounded_words(dr)}"]
+    return section("runs", lines)
 
 
 def main(argv=None):

@@ -32,7 +32,7 @@ import numpy as np
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", ".."))
 import contourkit as ck  # noqa: E402
-from _page import write_section  # noqa: E402
+from _page import publish  # noqa: E402
 
 
 
@@ -105,7 +105,6 @@ def main(points=100, repeat=5, n_direct=10):
     per_c = float(np.median([c for c, _ in b["rounds"]]))
     per_d = float(np.median([d for _, d in b["rounds"]]))
     lines = [
-        "<!-- scattering:start -->",
         "## Scattering (near-horizon contour method) and the direct solver",
         "",
         f"Measured {time.strftime('%Y-%m-%d')} on {platform.machine()}, {a['ncores']} cores, "
@@ -126,7 +125,7 @@ def main(points=100, repeat=5, n_direct=10):
         f"Speed-up of following over tracing: {a['t_trace'] / a['t_follow']:.1f}x. Expectation (100 points, "
         f"unitarity <= 1e-10, under 10 s on 2 cores): **{'met' if min(a['t_follow'], a['t_par']) < 10 else 'NOT met'}**.",
         "",
-        f"### (b) Per omega at equal accuracy (1e-8 on the thermal ratio), tanh profile D = 0.5, omega/kappa in [0.1, 3]",
+        "### (b) Per omega at equal accuracy (1e-8 on the thermal ratio), tanh profile D = 0.5, omega/kappa in [0.1, 3]",
         "",
         "| method | per omega (ms, median of rounds) | measured error of the thermal ratio |",
         "|---|---|---|",
@@ -148,11 +147,8 @@ def main(points=100, repeat=5, n_direct=10):
         "(row 3), for which the direct solver is faster. This machine's speed varies by some 20% "
         "between runs; the rounds show the spread. The expectation of 30x was met (31x) while the whole grid "
         "was one trace, before runs were cut into resumable blocks; with blocks it is not met.",
-        "<!-- scattering:end -->",
     ]
-    block = "\n".join(lines)
-    write_section("scattering", block)
-    print(block)
+    publish("scattering", lines)
 
 
 if __name__ == "__main__":

@@ -27,7 +27,7 @@ import sympy as sp
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", ".."))
 import contourkit as ck  # noqa: E402
-from _page import write_section  # noqa: E402
+from _page import publish  # noqa: E402
 
 w, k, x = sp.symbols("omega k x")
 
@@ -58,7 +58,6 @@ def main(repeat=3, lengths=(5, 20, 80, 500), om=0.27):
     warnings.simplefilter("ignore", ck.CoalescenceWarning)
     rows = [row(L, om, repeat) for L in lengths]
     lines = [
-        "<!-- turning:start -->",
         "## Scattering at a dispersive turning point (horizonless counter-current)",
         "",
         f"Measured {time.strftime('%Y-%m-%d')} on {platform.machine()}, {os.cpu_count()} cores, "
@@ -82,11 +81,8 @@ def main(repeat=3, lengths=(5, 20, 80, 500), om=0.27):
         "grows with L; it is the faster of the two up to L of a few hundred here. At L = 5 the difference "
         "of abs(S) is that of the conversion amplitudes, which the linearised turning point does not hold "
         "(docs/limitations.md).",
-        "<!-- turning:end -->",
     ]
-    block = "\n".join(lines)
-    write_section("turning", block)
-    print(block)
+    publish("turning", lines)
 
 
 if __name__ == "__main__":
